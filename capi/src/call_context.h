@@ -1,0 +1,26 @@
+// The per-call callbacks a caller passed to nucleate_call_observed. Handlers log and report
+// progress through this; nothing of it outlives the call.
+#pragma once
+
+#include <string>
+
+#include "nucleate/nucleate.h"
+
+namespace nucleate::capi {
+
+class CallContext {
+ public:
+  CallContext(nucleate_log_fn log, nucleate_progress_fn progress, void* user_data)
+      : log_(log), progress_(progress), user_data_(user_data) {}
+
+  void Log(int32_t level, const std::string& line) const;
+  // False when the caller asked to cancel.
+  bool ReportProgress(double fraction, const char* stage) const;
+
+ private:
+  nucleate_log_fn log_;
+  nucleate_progress_fn progress_;
+  void* user_data_;
+};
+
+}  // namespace nucleate::capi

@@ -1,0 +1,112 @@
+#include "dispatch.h"
+
+#include <new>
+
+#include "codec.h"
+#include "core/common/error.h"
+#include "methods/schedule_methods.h"
+#include "methods/version_method.h"
+#include "nucleate/v1/error.pb.h"
+#include "status.h"
+
+namespace nucleate::capi {
+namespace {
+
+namespace pb = google::protobuf;
+
+DispatchOutcome Fail(const char* method, int32_t encoding, const CallFailure& failure) {
+  DispatchOutcome outcome;
+  outcome.status = failure.status;
+  outcome.message = failure.message;
+  nucleate::v1::ErrorDetail detail;
+  detail.set_code(failure.status);
+  detail.set_status(nucleate_status_name(failure.status));
+  detail.set_message(failure.message);
+  detail.set_field(failure.field);
+  if (method != nullptr) detail.set_method(method);
+  const int32_t reply_encoding =
+      encoding == NUCLEATE_ENCODING_JSON ? NUCLEATE_ENCODING_JSON : NUCLEATE_ENCODING_BINARY;
+  try {
+    outcome.reply = EncodeMessage(detail, reply_encoding);
+  } catch (...) {
+    outcome.reply.clear();  // the status and message still reach the caller
+  }
+  return outcome;
+}
+
+}  // namespace
+
+const MethodEntry* FindMethod(const char* method) {
+  for (const MethodEntry& entry : Methods()) {
+    if (std::string(entry.name) == method) return &entry;
+  }
+  return nullptr;
+}
+
+const std::vector<MethodEntry>& Methods() {
+  static const std::vector<MethodEntry> kMethods = {
+      VersionMethod(),
+      ScheduleMethod(),
+      DesignScheduleMethod(),
+      WrappedNormalMethod(),
+  };
+  return kMethods;
+}
+
+DispatchOutcome Dispatch(const char* method, const void* request, size_t request_size,
+                         int32_t encoding, const CallContext& context) {
+  try {
+    if (method == nullptr) {
+      throw CallFailure{NUCLEATE_ERROR_NULL_ARGUMENT, "", "method name is NULL"};
+    }
+    if (encoding != NUCLEATE_ENCODING_BINARY && encoding != NUCLEATE_ENCODING_JSON) {
+      throw CallFailure{NUCLEATE_ERROR_BAD_ENCODING, "",
+                    std::string(method) + ": encoding " + std::to_string(encoding) +
+                        " is neither NUCLEATE_ENCODING_BINARY (0) nor NUCLEATE_ENCODING_JSON (1)"};
+    }
+    const MethodEntry* entry = FindMethod(method);
+    if (entry == nullptr) {
+      throw CallFailure{NUCLEATE_ERROR_UNKNOWN_METHOD, "",
+                    "unknown method '" + std::string(method) +
+                        "'; the Version method lists the methods this library knows"};
+    }
+    if (request == nullptr && request_size != 0) {
+      throw CallFailure{NUCLEATE_ERROR_NULL_ARGUMENT, "",
+                    std::string(method) + ": request is NULL but request_size is " +
+                        std::to_string(request_size)};
+    }
+    if (request_size > kMaxRequestBytes) {
+      throw CallFailure{NUCLEATE_ERROR_LIMIT_EXCEEDED, "",
+                    std::string(method) + ": request of " + std::to_string(request_size) +
+                        " bytes is over the limit of " + std::to_string(kMaxRequestBytes)};
+    }
+    std::unique_ptr<pb::Message> parsed(entry->request_prototype().New());
+    std::unique_ptr<pb::Message> reply(entry->reply_prototype().New());
+    DecodeMessage(request == nullptr ? "" : request, request_size, encoding,
+                  std::string(method) + ": request", parsed.get());
+    entry->handler(*parsed, reply.get(), context);
+    DispatchOutcome outcome;
+    outcome.reply = EncodeMessage(*reply, encoding);
+    return outcome;
+  } catch (const CallFailure& failure) {
+    return Fail(method, encoding, failure);
+  } catch (const Error& error) {
+    return Fail(method, encoding,
+                CallFailure{StatusForErrorKind(error.kind()), error.field(),
+                        std::string(method) + ": " + error.what()});
+  } catch (const std::bad_alloc&) {
+    return Fail(method, encoding,
+                CallFailure{NUCLEATE_ERROR_OUT_OF_MEMORY, "",
+                        std::string(method ? method : "") + ": out of memory"});
+  } catch (const std::exception& error) {
+    return Fail(method, encoding,
+                CallFailure{NUCLEATE_ERROR_INTERNAL, "",
+                        std::string(method ? method : "") + ": internal error: " + error.what()});
+  } catch (...) {
+    return Fail(method, encoding,
+                CallFailure{NUCLEATE_ERROR_INTERNAL, "",
+                        std::string(method ? method : "") + ": internal error"});
+  }
+}
+
+}  // namespace nucleate::capi

@@ -1,0 +1,9 @@
+#pragma once
+
+#include "dispatch.h"
+
+namespace nucleate::capi {
+
+MethodEntry VersionMethod();
+
+}  // namespace nucleate::capi

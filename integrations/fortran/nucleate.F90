@@ -1,0 +1,255 @@
+! nucleate: Fortran 2003 interface to libnucleate (iso_c_binding).
+!
+! Every procedure returns an integer status (NUCLEATE_OK = 0 on success) and, on failure, an
+! allocatable message naming what was wrong. Results come back in allocatable arrays and
+! strings: the module copies what the library returned and frees the library's memory itself,
+! so Fortran code never frees C memory.
+!
+! Requests and replies are protobuf JSON (see schemas/nucleate/v1 in the source tree); the typed
+! wrappers below build the request and read the reply for you.
+module nucleate
+  use, intrinsic :: iso_c_binding, only: c_char, c_int32_t, c_size_t, c_double, c_ptr, &
+    c_null_ptr, c_null_char, c_associated, c_f_pointer, c_loc
+  implicit none
+  private
+
+  ! Status codes: the same numbers as nucleate.h; never renumbered.
+  integer, parameter, public :: NUCLEATE_OK = 0
+  integer, parameter, public :: NUCLEATE_ERROR_UNKNOWN_METHOD = 1
+  integer, parameter, public :: NUCLEATE_ERROR_BAD_ENCODING = 2
+  integer, parameter, public :: NUCLEATE_ERROR_MALFORMED_REQUEST = 3
+  integer, parameter, public :: NUCLEATE_ERROR_INVALID_ARGUMENT = 4
+  integer, parameter, public :: NUCLEATE_ERROR_LIMIT_EXCEEDED = 5
+  integer, parameter, public :: NUCLEATE_ERROR_OUT_OF_MEMORY = 6
+  integer, parameter, public :: NUCLEATE_ERROR_INTERNAL = 7
+  integer, parameter, public :: NUCLEATE_ERROR_NULL_ARGUMENT = 8
+  integer, parameter, public :: NUCLEATE_ERROR_IO = 9
+  integer, parameter, public :: NUCLEATE_ERROR_CANCELLED = 10
+  integer, parameter, public :: NUCLEATE_ERROR_NUMERICAL = 11
+  integer, parameter, public :: NUCLEATE_ERROR_UNSUPPORTED = 12
+
+  integer(c_int32_t), parameter :: ENCODING_JSON = 1
+
+  public :: nucleate_version, nucleate_call_json, nucleate_reply_reals
+  public :: nucleate_variance_schedule, nucleate_sigma_schedule
+
+  interface
+    function c_version() bind(C, name="nucleate_version") result(text)
+      import :: c_ptr
+      type(c_ptr) :: text
+    end function
+
+    function c_call(method, request, request_size, encoding, reply, reply_size, message) &
+        bind(C, name="nucleate_call") result(status)
+      import :: c_char, c_size_t, c_int32_t, c_ptr
+      character(kind=c_char), dimension(*), intent(in) :: method
+      character(kind=c_char), dimension(*), intent(in) :: request
+      integer(c_size_t), value :: request_size
+      integer(c_int32_t), value :: encoding
+      type(c_ptr), intent(out) :: reply
+      integer(c_size_t), intent(out) :: reply_size
+      type(c_ptr), intent(out) :: message
+      integer(c_int32_t) :: status
+    end function
+
+    function c_reply_doubles(method, reply, reply_size, encoding, path, values, count, message) &
+        bind(C, name="nucleate_reply_doubles") result(status)
+      import :: c_char, c_size_t, c_int32_t, c_ptr
+      character(kind=c_char), dimension(*), intent(in) :: method
+      character(kind=c_char), dimension(*), intent(in) :: reply
+      integer(c_size_t), value :: reply_size
+      integer(c_int32_t), value :: encoding
+      character(kind=c_char), dimension(*), intent(in) :: path
+      type(c_ptr), intent(out) :: values
+      integer(c_size_t), intent(out) :: count
+      type(c_ptr), intent(out) :: message
+      integer(c_int32_t) :: status
+    end function
+
+    subroutine c_free(pointer) bind(C, name="nucleate_free")
+      import :: c_ptr
+      type(c_ptr), value :: pointer
+    end subroutine
+
+    function c_strlen(text) bind(C, name="strlen") result(length)
+      import :: c_ptr, c_size_t
+      type(c_ptr), value :: text
+      integer(c_size_t) :: length
+    end function
+  end interface
+
+contains
+
+  ! Copies `length` characters from C memory into a Fortran string (does not free).
+  function copy_chars(text, length) result(out)
+    type(c_ptr), intent(in) :: text
+    integer(c_size_t), intent(in) :: length
+    character(len=:), allocatable :: out
+    character(kind=c_char), pointer :: chars(:)
+    integer :: i
+    allocate(character(len=length) :: out)
+    if (length == 0) return
+    call c_f_pointer(text, chars, [length])
+    do i = 1, int(length)
+      out(i:i) = chars(i)
+    end do
+  end function
+
+  ! Takes a library-owned NUL-terminated message: copies it, frees it.
+  subroutine take_message(text, message)
+    type(c_ptr), intent(in) :: text
+    character(len=:), allocatable, intent(out) :: message
+    if (c_associated(text)) then
+      message = copy_chars(text, c_strlen(text))
+      call c_free(text)
+    else
+      message = ''
+    end if
+  end subroutine
+
+  !> The run-time library version, "major.minor.patch".
+  function nucleate_version() result(version)
+    character(len=:), allocatable :: version
+    type(c_ptr) :: text
+    text = c_version()
+    version = copy_chars(text, c_strlen(text))  ! static string: not freed
+  end function
+
+  !> Calls `method` with a protobuf JSON request. On success status = NUCLEATE_OK and `reply`
+  !> holds the JSON reply; otherwise `message` says what was wrong and `reply` holds the JSON
+  !> error detail.
+  subroutine nucleate_call_json(method, request, reply, status, message)
+    character(len=*), intent(in) :: method, request
+    character(len=:), allocatable, intent(out) :: reply
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    type(c_ptr) :: reply_ptr, message_ptr
+    integer(c_size_t) :: reply_size
+    status = c_call(method // c_null_char, request, int(len(request), c_size_t), ENCODING_JSON, &
+                    reply_ptr, reply_size, message_ptr)
+    if (status == NUCLEATE_ERROR_NULL_ARGUMENT .and. .not. c_associated(reply_ptr)) then
+      reply = ''
+    else
+      reply = copy_chars(reply_ptr, reply_size)
+      call c_free(reply_ptr)
+    end if
+    call take_message(message_ptr, message)
+  end subroutine
+
+  !> Every number at `path` (proto field names joined by dots, e.g. "variance_steps.alpha_bar")
+  !> in a JSON reply of `method`.
+  subroutine nucleate_reply_reals(method, reply, path, values, status, message)
+    character(len=*), intent(in) :: method, reply, path
+    real(c_double), allocatable, intent(out) :: values(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    type(c_ptr) :: values_ptr, message_ptr
+    integer(c_size_t) :: count
+    real(c_double), pointer :: found(:)
+    values_ptr = c_null_ptr
+    count = 0
+    status = c_reply_doubles(method // c_null_char, reply, int(len(reply), c_size_t), &
+                             ENCODING_JSON, path // c_null_char, values_ptr, count, message_ptr)
+    if (status == NUCLEATE_OK) then
+      allocate(values(count))
+      if (count > 0) then
+        call c_f_pointer(values_ptr, found, [count])
+        values = found
+        call c_free(values_ptr)
+      end if
+      message = ''
+    else
+      allocate(values(0))
+      call take_message(message_ptr, message)
+    end if
+  end subroutine
+
+  ! A double as JSON: enough digits to read back exactly.
+  function json_real(value) result(text)
+    real(c_double), intent(in) :: value
+    character(len=:), allocatable :: text
+    character(len=40) :: buffer
+    write(buffer, '(ES25.17E3)') value
+    text = trim(adjustl(buffer))
+  end function
+
+  function json_int(value) result(text)
+    integer, intent(in) :: value
+    character(len=:), allocatable :: text
+    character(len=24) :: buffer
+    write(buffer, '(I0)') value
+    text = trim(buffer)
+  end function
+
+  ! Calls Schedule and reads the named columns of the rows.
+  subroutine schedule_columns(request, rows, columns, table, status, message)
+    character(len=*), intent(in) :: request, rows
+    character(len=*), intent(in) :: columns(:)
+    real(c_double), allocatable, intent(out) :: table(:, :)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double), allocatable :: column(:)
+    integer :: c
+    allocate(table(0, size(columns)))
+    call nucleate_call_json('Schedule', request, reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    do c = 1, size(columns)
+      call nucleate_reply_reals('Schedule', reply, rows // '.' // trim(columns(c)), column, &
+                                status, message)
+      if (status /= NUCLEATE_OK) return
+      if (c == 1) then
+        deallocate(table)
+        allocate(table(size(column), size(columns)))
+      end if
+      table(:, c) = column
+    end do
+  end subroutine
+
+  !> A variance-preserving schedule of `kind` ("linear", "cosine", "sigmoid", "log_snr_linear")
+  !> with `steps` steps and the library's default parameters. Returns beta, alpha_bar and
+  !> log_snr for t = 1..steps.
+  subroutine nucleate_variance_schedule(kind, steps, beta, alpha_bar, log_snr, status, message)
+    character(len=*), intent(in) :: kind
+    integer, intent(in) :: steps
+    real(c_double), allocatable, intent(out) :: beta(:), alpha_bar(:), log_snr(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    real(c_double), allocatable :: table(:, :)
+    character(len=9), parameter :: columns(3) = [character(len=9) :: 'beta', 'alpha_bar', 'log_snr']
+    call schedule_columns('{"variance":{"kind":"VARIANCE_KIND_' // upper(kind) // &
+                          '","steps":' // json_int(steps) // '}}', 'variance_steps', columns, &
+                          table, status, message)
+    beta = table(:, 1)
+    alpha_bar = table(:, 2)
+    log_snr = table(:, 3)
+  end subroutine
+
+  !> A geometric sigma ladder for fractional coordinates from sigma_min to sigma_max.
+  subroutine nucleate_sigma_schedule(steps, sigma_min, sigma_max, sigma, status, message)
+    integer, intent(in) :: steps
+    real(c_double), intent(in) :: sigma_min, sigma_max
+    real(c_double), allocatable, intent(out) :: sigma(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    real(c_double), allocatable :: table(:, :)
+    character(len=5), parameter :: columns(1) = ['sigma']
+    call schedule_columns('{"sigma":{"kind":"SIGMA_KIND_GEOMETRIC","steps":' // json_int(steps) &
+                          // ',"sigma_min":' // json_real(sigma_min) // ',"sigma_max":' // &
+                          json_real(sigma_max) // '}}', 'sigma_levels', columns, table, status, &
+                          message)
+    sigma = table(:, 1)
+  end subroutine
+
+  pure function upper(text) result(out)
+    character(len=*), intent(in) :: text
+    character(len=len(text)) :: out
+    integer :: i, code
+    out = text
+    do i = 1, len(text)
+      code = iachar(text(i:i))
+      if (code >= iachar('a') .and. code <= iachar('z')) out(i:i) = achar(code - 32)
+    end do
+  end function
+
+end module nucleate
