@@ -14,14 +14,30 @@ namespace {
 
 namespace pb = google::protobuf;
 
+// Messages are one line, whatever the text they quote (protobuf's JSON errors span lines).
+std::string OneLine(const std::string& text) {
+  std::string out;
+  bool space = false;
+  for (char c : text) {
+    if (c == '\n' || c == '\r' || c == '\t') {
+      space = !out.empty();
+      continue;
+    }
+    if (space && c != ' ') out += ' ';
+    space = false;
+    out += c;
+  }
+  return out;
+}
+
 DispatchOutcome Fail(const char* method, int32_t encoding, const CallFailure& failure) {
   DispatchOutcome outcome;
   outcome.status = failure.status;
-  outcome.message = failure.message;
+  outcome.message = OneLine(failure.message);
   nucleate::v1::ErrorDetail detail;
   detail.set_code(failure.status);
   detail.set_status(nucleate_status_name(failure.status));
-  detail.set_message(failure.message);
+  detail.set_message(outcome.message);
   detail.set_field(failure.field);
   if (method != nullptr) detail.set_method(method);
   const int32_t reply_encoding =
