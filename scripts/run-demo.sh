@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# The main job on the shipped defaults. For now: design noise schedules for crystal generation,
-# print the designed schedule's table and write plots. (Structure generation arrives with the
+# The main job on the shipped defaults. For now: design the noise schedules for crystal generation
+# from physical targets, print the designed tables and write plots. (Structure generation arrives with the
 # model and sampling work.)
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
@@ -14,22 +14,24 @@ mkdir -p "$out"
 
 "$nucleate" version
 echo
-echo "== Designing schedules for 1000 steps: terminal SNR 1e-4, coordinates resolved to 0.02 A"
-echo "   on a 5 A cell, coordinate noise at sigma_max within 0.005 of uniform"
-"$nucleate" design --steps 1000 --terminal-snr 1e-4 --resolution 0.02 --cell-length 5 \
-  --tv-distance 0.005 --json > "$out/design.json"
-"$nucleate" design --steps 1000 --terminal-snr 1e-4 --resolution 0.02 --cell-length 5 \
-  --tv-distance 0.005
+echo "== Designing schedules for 1000 steps: lattice noise from SNR 1e4 down to 1e-4;"
+echo "   coordinates resolved to 0.02 A on a 5 A cell at the finest level, and within 0.005"
+echo "   (total variation) of uniform at the coarsest"
+"$nucleate" design --steps 1000 --initial-snr 1e4 --terminal-snr 1e-4 --resolution 0.02 \
+  --cell-length 5 --tv-distance 0.005 --json > "$out/design.json"
+"$nucleate" design --steps 1000 --initial-snr 1e4 --terminal-snr 1e-4 --resolution 0.02 \
+  --cell-length 5 --tv-distance 0.005
 echo
-echo "== Lattice noise: cosine schedule, every 100th step of 1000"
-"$nucleate" schedule --kind cosine --steps 1000 --respace 10 --format table \
-  --plot "$out/cosine_log_snr.svg"
+echo "== The designed lattice-noise schedule, every 100th of its 1000 steps"
+"$nucleate" schedule --design "$out/design.json" --respace 10 --format table \
+  --plot "$out/lattice_log_snr.svg"
+"$nucleate" schedule --design "$out/design.json" --format csv > "$out/lattice_schedule.csv"
 echo
-echo "== Coordinate noise: geometric sigma ladder on the unit torus, 10 levels"
-"$nucleate" schedule --kind geometric --steps 10 --sigma-min 0.004 --sigma-max 0.5 \
-  --format table --plot "$out/sigma_ladder.svg"
-"$nucleate" schedule --kind cosine --steps 1000 --format csv > "$out/cosine.csv"
-"$nucleate" schedule --kind geometric --steps 1000 --sigma-min 0.004 --sigma-max 0.5 \
-  --format csv > "$out/sigma_ladder.csv"
+echo "== The designed coordinate-noise ladder on the unit torus (wrapped normal), 10 levels"
+"$nucleate" schedule --design "$out/design.json" --kind geometric --steps 10 --format table \
+  --plot "$out/coordinate_sigma.svg"
+"$nucleate" schedule --design "$out/design.json" --kind geometric --format csv \
+  > "$out/coordinate_sigma.csv"
 echo
-echo "Wrote: $out/design.json, cosine.csv, sigma_ladder.csv, cosine_log_snr.svg, sigma_ladder.svg"
+echo "Wrote $out: design.json, lattice_schedule.csv, coordinate_sigma.csv,"
+echo "      lattice_log_snr.svg, coordinate_sigma.svg"

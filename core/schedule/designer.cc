@@ -5,16 +5,11 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/common/require.h"
 #include "core/schedule/wrapped_normal.h"
 
 namespace nucleate::schedule {
 namespace {
-
-void RequirePositiveFinite(const char* field, double value) {
-  if (!std::isfinite(value) || !(value > 0.0)) {
-    throw InvalidArgument(field, "must be a finite number > 0");
-  }
-}
 
 void ValidateTargets(const DesignTargets& d, const ScheduleLimits& limits) {
   if (d.steps < 2) throw InvalidArgument("steps", "a designed schedule needs at least 2 steps");
@@ -25,10 +20,8 @@ void ValidateTargets(const DesignTargets& d, const ScheduleLimits& limits) {
     case VarianceKind::kLinear:
     case VarianceKind::kCosine:
     case VarianceKind::kSigmoid:
-    case VarianceKind::kLogSnrLinear:
-      break;
-    default:
-      throw InvalidArgument("variance_kind", "not a known variance schedule kind");
+    case VarianceKind::kLogSnrLinear: break;
+    default: throw InvalidArgument("variance_kind", "not a known variance schedule kind");
   }
   if (d.sigma_kind != SigmaKind::kGeometric && d.sigma_kind != SigmaKind::kKarras) {
     throw InvalidArgument("sigma_kind", "not a known sigma schedule kind");
@@ -64,8 +57,9 @@ void DesignLinear(const DesignTargets& d, VarianceParams& v) {
   const double target = std::log(d.terminal_snr);
   double lo = v.beta_start, hi = std::nextafter(1.0, 0.0);
   if (LinearTerminalLogSnr(d.steps, lo, lo) < target) {
-    throw InvalidArgument("terminal_snr", "already passed with a constant beta = beta_start; "
-                                          "raise terminal_snr, lower initial_snr or use fewer steps");
+    throw InvalidArgument("terminal_snr",
+                          "already passed with a constant beta = beta_start; "
+                          "raise terminal_snr, lower initial_snr or use fewer steps");
   }
   if (LinearTerminalLogSnr(d.steps, lo, hi) > target) {
     throw InvalidArgument("terminal_snr", "not reachable by a linear schedule with beta_end < 1");
@@ -102,8 +96,9 @@ void DesignByShift(VarianceParams& v, const ScheduleLimits& limits, double termi
 
 double DesignSigmaMax(double sigma_min, double tv_target) {
   if (WrappedNormalTvDistanceToUniform(sigma_min) <= tv_target) {
-    throw InvalidArgument("tv_distance", "already reached at sigma_min = resolution_angstrom / "
-                                         "cell_length_angstrom; ask for a smaller distance");
+    throw InvalidArgument("tv_distance",
+                          "already reached at sigma_min = resolution_angstrom / "
+                          "cell_length_angstrom; ask for a smaller distance");
   }
   // TV falls monotonically with sigma (convolution with a further wrapped normal contracts it);
   // at sigma = 8 it is below 1e-300, so the doubling ends.

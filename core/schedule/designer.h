@@ -8,7 +8,11 @@ namespace nucleate::schedule {
 
 struct DesignTargets {
   long long steps = 1000;
-  VarianceKind variance_kind = VarianceKind::kCosine;
+  // Log-SNR linear meets both SNR targets exactly with even steps in log-SNR, so it is the
+  // default. Cosine and sigmoid end in a step clipped at max_beta that alone drops log-SNR by
+  // about log(1 / (1 - max_beta)); their designs shift the whole curve, and max_log_snr_step in
+  // the diagnostics shows that final jump.
+  VarianceKind variance_kind = VarianceKind::kLogSnrLinear;
   double terminal_snr = 1e-4;        // SNR = alpha_bar / (1 - alpha_bar) at t = T
   double initial_snr = 1e4;          // at t = 1; used by kLinear (beta_start) and kLogSnrLinear
   SigmaKind sigma_kind = SigmaKind::kGeometric;

@@ -63,16 +63,7 @@ void FillCosine(std::vector<TransitionStep>& steps, long long T, double s) {
 }  // namespace
 
 void ValidateTransitionParams(const TransitionParams& p, const ScheduleLimits& limits) {
-  if (limits.max_steps < 1) throw InvalidArgument("max_steps", "must be >= 1");
-  if (limits.max_steps > ScheduleLimits::kCeilingMaxSteps) {
-    throw LimitExceeded("max_steps", "above the ceiling of " +
-                                         std::to_string(ScheduleLimits::kCeilingMaxSteps));
-  }
-  if (limits.max_classes < 2) throw InvalidArgument("max_classes", "must be >= 2");
-  if (limits.max_classes > ScheduleLimits::kCeilingMaxClasses) {
-    throw LimitExceeded("max_classes", "above the ceiling of " +
-                                           std::to_string(ScheduleLimits::kCeilingMaxClasses));
-  }
+  ValidateScheduleLimits(limits);
   CheckKind(p.kind);
   if (p.retention != RetentionKind::kCosine && p.retention != RetentionKind::kReciprocal) {
     throw InvalidArgument("retention", "not a known retention kind");
@@ -85,7 +76,8 @@ void ValidateTransitionParams(const TransitionParams& p, const ScheduleLimits& l
   if (p.num_classes > limits.max_classes) {
     throw LimitExceeded("num_classes", "above max_classes = " + std::to_string(limits.max_classes));
   }
-  if (!std::isfinite(p.cosine_offset)) throw InvalidArgument("cosine_offset", "must be a finite number");
+  if (!std::isfinite(p.cosine_offset))
+    throw InvalidArgument("cosine_offset", "must be a finite number");
   if (p.cosine_offset < 0.0) throw InvalidArgument("cosine_offset", "must be >= 0");
 }
 

@@ -22,3 +22,10 @@ struct ScheduleLimits {
 };
 
 }  // namespace nucleate::schedule
+
+namespace nucleate::schedule {
+
+// Refuses a limit below its floor or above its ceiling, naming it ("max_steps", ...).
+void ValidateScheduleLimits(const ScheduleLimits& limits);
+
+}  // namespace nucleate::schedule

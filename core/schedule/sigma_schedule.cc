@@ -4,6 +4,7 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/common/require.h"
 
 namespace nucleate::schedule {
 namespace {
@@ -11,10 +12,6 @@ namespace {
 // Matches the domain of the wrapped-normal functions: above 100 the distribution is uniform far
 // beyond double precision.
 constexpr double kMaxSigma = 100.0;
-
-void RequireFinite(const char* field, double value) {
-  if (!std::isfinite(value)) throw InvalidArgument(field, "must be a finite number");
-}
 
 double GeometricSigma(const SigmaParams& p, double u) {
   return std::exp((1.0 - u) * std::log(p.sigma_min) + u * std::log(p.sigma_max));
@@ -30,11 +27,7 @@ double KarrasSigma(const SigmaParams& p, double u) {
 }  // namespace
 
 void ValidateSigmaParams(const SigmaParams& p, const ScheduleLimits& limits) {
-  if (limits.max_steps < 1) throw InvalidArgument("max_steps", "must be >= 1");
-  if (limits.max_steps > ScheduleLimits::kCeilingMaxSteps) {
-    throw LimitExceeded("max_steps", "above the ceiling of " +
-                                         std::to_string(ScheduleLimits::kCeilingMaxSteps));
-  }
+  ValidateScheduleLimits(limits);
   if (p.kind != SigmaKind::kGeometric && p.kind != SigmaKind::kKarras) {
     throw InvalidArgument("kind", "not a known sigma schedule kind");
   }

@@ -24,8 +24,8 @@ constexpr double kFourierSigma = 0.2;
 
 void CheckSigma(double sigma) {
   if (!std::isfinite(sigma) || sigma < kMinSigma || sigma > kMaxSigma) {
-    throw InvalidArgument("sigma", "must be a finite number in [1e-150, 100], got " +
-                                       std::to_string(sigma));
+    throw InvalidArgument("sigma",
+                          "must be a finite number in [1e-150, 100], got " + std::to_string(sigma));
   }
 }
 
@@ -103,7 +103,10 @@ double TvByImages(double sigma) {
   double x = std::min(sigma * std::sqrt(2.0 * std::max(peak, 0.0)), 0.45);
   for (int iter = 0; iter < 200; ++iter) {
     const double g = LogDensityReduced(x, sigma, images);
-    if (g > 0.0) lo = x; else hi = x;
+    if (g > 0.0)
+      lo = x;
+    else
+      hi = x;
     const double slope = ScoreReduced(x, sigma, images);
     double next = slope < 0.0 ? x - g / slope : 0.5 * (lo + hi);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
@@ -134,7 +137,10 @@ double TvByFourier(double sigma) {
       h += ratio[n - 1] * std::cos(2.0 * kPi * n * x);
       dh -= 2.0 * kPi * n * ratio[n - 1] * std::sin(2.0 * kPi * n * x);
     }
-    if (h > 0.0) lo = x; else hi = x;
+    if (h > 0.0)
+      lo = x;
+    else
+      hi = x;
     double next = dh < 0.0 ? x - h / dh : 0.5 * (lo + hi);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     const double step = std::fabs(next - x);
@@ -170,8 +176,8 @@ TruncationBound WrappedNormalTruncationBound(double sigma, int images) {
   TruncationBound bound;
   bound.images = images;
   bound.density_relative_error = ExpBound(std::log(2.0) + log_gap - std::log(one_minus_q));
-  const double bracket = a / one_minus_q + std::max(a, var / a) / one_minus_q +
-                         q / (one_minus_q * one_minus_q);
+  const double bracket =
+      a / one_minus_q + std::max(a, var / a) / one_minus_q + q / (one_minus_q * one_minus_q);
   bound.score_absolute_error = ExpBound(std::log(2.0 / var) + log_gap + std::log(bracket));
   return bound;
 }

@@ -2,6 +2,7 @@
 
 #include <cstdio>
 #include <iostream>
+#include <map>
 #include <memory>
 #include <sstream>
 
@@ -12,7 +13,7 @@ namespace nucleate::cli {
 namespace {
 
 struct DesignOptions {
-  std::string variance_kind = "cosine";
+  std::string variance_kind = "log-snr-linear";
   std::string sigma_kind = "geometric";
   bool json = false;
   // flag, request field, value, option
@@ -36,13 +37,12 @@ void PrintSection(const char* title, const YAML::Node& node) {
 
 int RunDesign(const DesignOptions& options) {
   std::ostringstream request;
-  request << "{\"variance_kind\":\"VARIANCE_KIND_"
-          << (options.variance_kind == "log-snr-linear" ? "LOG_SNR_LINEAR"
-                                                        : options.variance_kind == "linear"
-                                                              ? "LINEAR"
-                                                              : options.variance_kind == "sigmoid"
-                                                                    ? "SIGMOID"
-                                                                    : "COSINE")
+  static const std::map<std::string, std::string> kVarianceKinds = {
+      {"linear", "VARIANCE_KIND_LINEAR"},
+      {"cosine", "VARIANCE_KIND_COSINE"},
+      {"sigmoid", "VARIANCE_KIND_SIGMOID"},
+      {"log-snr-linear", "VARIANCE_KIND_LOG_SNR_LINEAR"}};
+  request << "{\"variance_kind\":\"" << kVarianceKinds.at(options.variance_kind)
           << "\",\"sigma_kind\":\"SIGMA_KIND_"
           << (options.sigma_kind == "karras" ? "KARRAS" : "GEOMETRIC") << "\"";
   for (const auto& number : options.numbers) {

@@ -1,6 +1,10 @@
 #include "schedule_command.h"
 
+#include <algorithm>
 #include <cstdio>
+#include <cstring>
+#include <fstream>
+#include <iterator>
 #include <iostream>
 #include <map>
 #include <memory>
@@ -81,50 +85,83 @@ TableLayout LayoutFor(Family family) {
 struct ScheduleOptions {
   std::string kind = "cosine";
   long long steps = 1000;
-  bool steps_given = false;
+  std::string design;  // a DesignSchedule reply (nucleate design --json) to start from
   std::string format = "csv";
   std::string plot;
   bool zero_terminal_snr = false;
   std::string retention;
   std::vector<NumberFlag> numbers;
+  CLI::Option* kind_option = nullptr;
+  CLI::Option* steps_option = nullptr;
 };
 
-std::string BuildRequest(const ScheduleOptions& options, const KindInfo& kind,
-                         const CLI::Option* steps_option) {
-  std::ostringstream body;
-  body << "\"kind\":\"" << kind.enum_name << "\"";
-  if (steps_option->count() > 0) body << ",\"steps\":" << options.steps;
+// The family block of a saved design, as request fields. Protobuf JSON reads numbers given as
+// strings, so every scalar is passed on as its reply text; only booleans must stay bare.
+std::map<std::string, std::string> FieldsFromDesign(const std::string& path, Family family) {
+  std::ifstream file(path);
+  if (!file) throw std::runtime_error("cannot read the design file '" + path + "'");
+  const std::string text{std::istreambuf_iterator<char>(file), std::istreambuf_iterator<char>()};
+  const YAML::Node block = ParseJson(text)[FamilyField(family)];
+  if (!block || !block.IsMap()) {
+    throw std::runtime_error("'" + path + "' holds no '" + FamilyField(family) +
+                             "' schedule; write it with: nucleate design --json");
+  }
+  std::map<std::string, std::string> fields;
+  for (const auto& entry : block) {
+    const std::string value = entry.second.as<std::string>();
+    fields[entry.first.as<std::string>()] =
+        value == "true" || value == "false" ? value : JsonQuote(value);
+  }
+  return fields;
+}
+
+std::string BuildRequest(const ScheduleOptions& options, const KindInfo& kind) {
+  std::map<std::string, std::string> fields;
+  if (!options.design.empty()) fields = FieldsFromDesign(options.design, kind.family);
+  if (options.design.empty() || options.kind_option->count() > 0) {
+    fields["kind"] = JsonQuote(kind.enum_name);
+  }
+  if (options.steps_option->count() > 0) fields["steps"] = std::to_string(options.steps);
   for (const NumberFlag& number : options.numbers) {
     if (number.option->count() == 0) continue;
     if (number.family != kind.family) {
       throw CLI::ValidationError(std::string("--") + number.flag,
                                  "does not apply to --kind " + options.kind);
     }
-    body << ",\"" << number.field << "\":" << JsonNumber(number.value);
+    fields[number.field] = JsonNumber(number.value);
   }
   if (options.zero_terminal_snr) {
     if (kind.family != Family::kVariance) {
       throw CLI::ValidationError("--zero-terminal-snr", "applies to variance-preserving kinds");
     }
-    body << ",\"zero_terminal_snr\":true";
+    fields["zero_terminal_snr"] = "true";
   }
   if (!options.retention.empty()) {
     if (kind.family != Family::kTransition) {
       throw CLI::ValidationError("--retention", "applies to --kind uniform or absorbing");
     }
-    body << ",\"retention\":\"RETENTION_KIND_"
-         << (options.retention == "cosine" ? "COSINE" : "RECIPROCAL") << "\"";
+    fields["retention"] = options.retention == "cosine" ? "\"RETENTION_KIND_COSINE\""
+                                                        : "\"RETENTION_KIND_RECIPROCAL\"";
   }
-  return std::string("{\"") + FamilyField(kind.family) + "\":{" + body.str() + "}}";
+  std::string body;
+  for (const auto& [name, value] : fields) {
+    body += (body.empty() ? "" : ",") + JsonQuote(name) + ":" + value;
+  }
+  return std::string("{\"") + FamilyField(kind.family) + "\":{" + body + "}}";
 }
 
 void PrintTable(const YAML::Node& rows, const TableLayout& layout, const std::string& format) {
   const bool csv = format == "csv";
+  // Readable table: each column as wide as its name, at least a %.6g number wide.
+  std::vector<int> widths;
+  for (const char* column : layout.columns) {
+    widths.push_back(std::max<int>(12, static_cast<int>(std::strlen(column))));
+  }
   for (size_t c = 0; c < layout.columns.size(); ++c) {
     if (csv) {
       std::cout << (c ? "," : "") << layout.columns[c];
     } else {
-      std::printf(c ? " %14.14s" : "%7.7s", layout.columns[c]);
+      std::printf("%s%*s", c ? " " : "", widths[c], layout.columns[c]);
     }
   }
   std::cout << '\n';
@@ -134,14 +171,13 @@ void PrintTable(const YAML::Node& rows, const TableLayout& layout, const std::st
       if (csv) {
         // The reply's own text: shortest round-trip digits, no precision lost.
         std::cout << (c ? "," : "") << (cell ? cell.as<std::string>() : "");
-      } else if (c == 0) {
-        std::printf("%7s", cell.as<std::string>().c_str());
       } else {
-        std::printf(" %14.6g", cell ? AsDouble(cell) : 0.0);
+        std::printf("%s%*.6g", c ? " " : "", widths[c], cell ? AsDouble(cell) : 0.0);
       }
     }
     std::cout << '\n';
   }
+  std::cout.flush();
 }
 
 void Plot(const YAML::Node& rows, Family family, const std::string& kind,
@@ -149,11 +185,15 @@ void Plot(const YAML::Node& rows, Family family, const std::string& kind,
   PlotSeries series;
   PlotSpec spec;
   spec.x_label = "step t";
+  const char* x_field = "t";
   const char* y_field = "log_snr";
   switch (family) {
     case Family::kVariance:
       series.name = "log-SNR";
       spec.y_label = "log SNR = log(alpha_bar / (1 - alpha_bar))";
+      // A respaced schedule is drawn where its steps sit in the original one.
+      x_field = "source_t";
+      spec.x_label = "step t of the original schedule";
       break;
     case Family::kSigma:
       y_field = "sigma";
@@ -169,15 +209,18 @@ void Plot(const YAML::Node& rows, Family family, const std::string& kind,
   }
   spec.title = "nucleate schedule: " + kind;
   for (const YAML::Node& row : rows) {
-    series.x.push_back(AsDouble(row["t"]));
+    series.x.push_back(AsDouble(row[x_field]));
     series.y.push_back(AsDouble(row[y_field]));
   }
   WriteSvgPlot(path, spec, {series});
 }
 
-int RunSchedule(const ScheduleOptions& options, const CLI::Option* steps_option) {
-  const KindInfo& kind = Kinds().at(options.kind);
-  const std::string reply_json = CallJson("Schedule", BuildRequest(options, kind, steps_option));
+int RunSchedule(const ScheduleOptions& options) {
+  // With a design and no --kind, the design's variance schedule is shown.
+  const bool from_design_variance = !options.design.empty() && options.kind_option->count() == 0;
+  const KindInfo& kind = Kinds().at(from_design_variance ? "log-snr-linear" : options.kind);
+  const std::string title = from_design_variance ? "designed variance schedule" : options.kind;
+  const std::string reply_json = CallJson("Schedule", BuildRequest(options, kind));
   if (options.format == "json") {
     std::cout << reply_json << '\n';
   }
@@ -185,7 +228,7 @@ int RunSchedule(const ScheduleOptions& options, const CLI::Option* steps_option)
   const TableLayout layout = LayoutFor(kind.family);
   const YAML::Node rows = reply[layout.rows];
   if (options.format != "json") PrintTable(rows, layout, options.format);
-  if (!options.plot.empty()) Plot(rows, kind.family, options.kind, options.plot);
+  if (!options.plot.empty()) Plot(rows, kind.family, title, options.plot);
   return 0;
 }
 
@@ -197,11 +240,15 @@ void AddScheduleCommand(CLI::App& app, std::function<int()>* run) {
       "schedule", "Print a noise schedule, one row per step (t = 1..T)");
   std::vector<std::string> kind_names;
   for (const auto& entry : Kinds()) kind_names.push_back(entry.first);
-  command->add_option("--kind", options->kind, "Schedule kind")
-      ->check(CLI::IsMember(kind_names))
-      ->capture_default_str();
-  CLI::Option* steps = command->add_option("--steps", options->steps, "Number of steps T")
-                           ->capture_default_str();
+  options->kind_option = command->add_option("--kind", options->kind, "Schedule kind")
+                             ->check(CLI::IsMember(kind_names))
+                             ->capture_default_str();
+  options->steps_option = command->add_option("--steps", options->steps, "Number of steps T")
+                              ->capture_default_str();
+  command->add_option("--design", options->design,
+                      "Start from a design saved by 'nucleate design --json' (its variance "
+                      "schedule, or its sigma ladder with --kind geometric/karras); flags override")
+      ->check(CLI::ExistingFile);
   command->add_option("--format", options->format, "Output format")
       ->check(CLI::IsMember({"csv", "json", "table"}))
       ->capture_default_str();
@@ -231,9 +278,7 @@ void AddScheduleCommand(CLI::App& app, std::function<int()>* run) {
   for (NumberFlag& number : options->numbers) {
     number.option = command->add_option(std::string("--") + number.flag, number.value, number.help);
   }
-  command->callback([options, steps, run] {
-    *run = [options, steps] { return RunSchedule(*options, steps); };
-  });
+  command->callback([options, run] { *run = [options] { return RunSchedule(*options); }; });
 }
 
 }  // namespace nucleate::cli

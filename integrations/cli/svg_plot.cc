@@ -69,7 +69,7 @@ void WriteSvgPlot(const std::string& path, const PlotSpec& spec,
     svg << "<text x=\"" << px(xv) << "\" y=\"" << kTop + plot_h + 18
         << "\" text-anchor=\"middle\">" << Tick(xv) << "</text>\n"
         << "<text x=\"" << kLeft - 6 << "\" y=\"" << py(yv) + 4 << "\" text-anchor=\"end\">"
-        << (spec.log_y ? "1e" + Tick(yv) : Tick(yv)) << "</text>\n"
+        << Tick(spec.log_y ? std::pow(10.0, yv) : yv) << "</text>\n"
         << "<line x1=\"" << kLeft << "\" x2=\"" << kLeft + plot_w << "\" y1=\"" << py(yv)
         << "\" y2=\"" << py(yv) << "\" stroke=\"#ddd\"/>\n";
   }
@@ -85,7 +85,8 @@ void WriteSvgPlot(const std::string& path, const PlotSpec& spec,
       if (!std::isfinite(series[k].x[i]) || !std::isfinite(y)) continue;
       svg << px(series[k].x[i]) << ',' << py(y) << ' ';
     }
-    svg << "\"/>\n<text x=\"" << kLeft + plot_w - 8 << "\" y=\"" << kTop + 18 + 16 * k
+    // Legend in the top margin, clear of any curve.
+    svg << "\"/>\n<text x=\"" << kLeft + plot_w - 90 * k << "\" y=\"" << kTop - 8
         << "\" text-anchor=\"end\" fill=\"" << colour << "\">" << Escape(series[k].name)
         << "</text>\n";
   }

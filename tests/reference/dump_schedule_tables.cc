@@ -48,7 +48,8 @@ const char* KindName(VarianceKind kind) {
 }
 
 std::string TableJson(const std::string& name, const VarianceParams& p) {
-  const std::vector<VarianceStep> rows = nucleate::schedule::BuildVarianceSchedule(p, ScheduleLimits{});
+  const std::vector<VarianceStep> rows =
+      nucleate::schedule::BuildVarianceSchedule(p, ScheduleLimits{});
   std::string out = "{\"name\":\"" + name + "\",\"params\":{";
   out += "\"kind\":\"" + std::string(KindName(p.kind)) + "\"";
   out += ",\"steps\":" + std::to_string(p.steps);
@@ -67,7 +68,8 @@ std::string TableJson(const std::string& name, const VarianceParams& p) {
       {"alpha", [](const VarianceStep& s) { return s.alpha; }},
       {"alpha_bar", [](const VarianceStep& s) { return s.alpha_bar; }},
       {"sqrt_alpha_bar", [](const VarianceStep& s) { return s.sqrt_alpha_bar; }},
-      {"sqrt_one_minus_alpha_bar", [](const VarianceStep& s) { return s.sqrt_one_minus_alpha_bar; }},
+      {"sqrt_one_minus_alpha_bar",
+       [](const VarianceStep& s) { return s.sqrt_one_minus_alpha_bar; }},
       {"snr", [](const VarianceStep& s) { return s.snr; }},
       {"log_snr", [](const VarianceStep& s) { return s.log_snr; }},
       {"posterior_variance", [](const VarianceStep& s) { return s.posterior_variance; }},
@@ -121,11 +123,13 @@ void Run() {
       {"cosine_respaced_37", With(VarianceKind::kCosine, [](auto& p) { p.respaced_steps = 37; })},
       {"cosine_shift_minus_2", With(VarianceKind::kCosine, [](auto& p) { p.log_snr_shift = -2; })},
       {"linear_shift_plus_1", With(VarianceKind::kLinear, [](auto& p) { p.log_snr_shift = 1; })},
-      {"linear_zero_terminal", With(VarianceKind::kLinear, [](auto& p) { p.zero_terminal_snr = true; })},
-      {"cosine_zero_terminal_respaced_100", With(VarianceKind::kCosine, [](auto& p) {
-         p.zero_terminal_snr = true;
-         p.respaced_steps = 100;
-       })},
+      {"linear_zero_terminal",
+       With(VarianceKind::kLinear, [](auto& p) { p.zero_terminal_snr = true; })},
+      {"cosine_zero_terminal_respaced_100", With(VarianceKind::kCosine,
+                                                 [](auto& p) {
+                                                   p.zero_terminal_snr = true;
+                                                   p.respaced_steps = 100;
+                                                 })},
       {"linear_one_step", With(VarianceKind::kLinear, [](auto& p) { p.steps = 1; })},
   };
   std::printf("{\"format\":\"nucleate-schedule-dump-1\",\"tables\":[");

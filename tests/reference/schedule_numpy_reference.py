@@ -131,6 +131,14 @@ def build_reference(p):
     return cols
 
 
+def _difference(g, r, col):
+    if col in LOG_COLUMNS:
+        # Logs compared absolutely, to tolerance * max(1, |x|).
+        return np.abs(g - r) / np.maximum(1, np.abs(r))
+    # Relative, with an absolute floor of 1e-300 for zeros.
+    return np.abs(g - r) / np.maximum(np.maximum(np.abs(g), np.abs(r)), LD(1e-300))
+
+
 def compare_tables(tables):
     for table in tables:
         name, p = table["name"], table["params"]
@@ -148,11 +156,8 @@ def compare_tables(tables):
                 fail("%s.%s: %d rows, reference has %d" % (name, col, g.size, r.size))
                 continue
             same = (g == r)  # covers equal infinities
-            if col in LOG_COLUMNS:
-                # Logs compared absolutely, to 1e-12 * max(1, |x|).
-                diff = np.abs(g - r) / np.maximum(1, np.abs(r))
-            else:
-                diff = np.abs(g - r) / np.maximum(np.maximum(np.abs(g), np.abs(r)), LD(1e-300))
+            with np.errstate(invalid="ignore"):
+                diff = _difference(g, r, col)
             diff = np.where(same, 0, diff)
             diff = np.where(np.isnan(diff), np.inf, diff)
             m = float(np.max(diff))
@@ -209,9 +214,9 @@ def check_wrapped_normal(cases):
         if not density_excess <= 1:
             fail("sigma %g: density differs from numpy by %.3g relative" % (sigma, max_density_rel))
 
-        # Score against a central difference of numpy's log density, h = 1e-4 sigma; error
+        # Score against a central difference of numpy's log density, h = 1e-5 sigma; error
         # measured relative to max(|score|, 1/sigma), the natural scale where the score passes 0.
-        h = LD(1e-4) * LD(sigma)
+        h = LD(1e-5) * LD(sigma)
         fd = (numpy_log_density(x + h, sigma) - numpy_log_density(x - h, sigma)) / (2 * h)
         scale = np.maximum(np.abs(got_score), 1 / LD(sigma))
         score_err = float(np.max(np.where(live, np.abs(got_score - fd) / scale, 0)))

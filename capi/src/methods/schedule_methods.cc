@@ -18,31 +18,17 @@ namespace sc = nucleate::schedule;
 
 // ---- limits -----------------------------------------------------------------------------------
 
-std::int64_t ResolveLimit(bool present, std::int64_t value, std::int64_t fallback,
-                          std::int64_t ceiling, const char* field) {
-  if (!present) return fallback;
-  if (value < 1) {
-    throw InvalidArgument(std::string("limits.") + field, "must be at least 1, got " +
-                                                              std::to_string(value));
-  }
-  if (value > ceiling) {
-    throw LimitExceeded(std::string("limits.") + field,
-                        std::to_string(value) + " is above the ceiling " + std::to_string(ceiling));
-  }
-  return value;
-}
-
+// Limits left out keep core's defaults; core checks floors and ceilings.
 sc::ScheduleLimits FromMessage(const v1::ScheduleLimits& message) {
-  using L = sc::ScheduleLimits;
   sc::ScheduleLimits limits;
-  limits.max_steps = ResolveLimit(message.has_max_steps(), message.max_steps(),
-                                  L::kDefaultMaxSteps, L::kCeilingMaxSteps, "max_steps");
-  limits.max_classes = ResolveLimit(message.has_max_classes(), message.max_classes(),
-                                    L::kDefaultMaxClasses, L::kCeilingMaxClasses, "max_classes");
-  limits.max_matrix_entries =
-      ResolveLimit(message.has_max_matrix_entries(), message.max_matrix_entries(),
-                   L::kDefaultMaxMatrixEntries, L::kCeilingMaxMatrixEntries,
-                   "max_matrix_entries");
+  if (message.has_max_steps()) limits.max_steps = message.max_steps();
+  if (message.has_max_classes()) limits.max_classes = message.max_classes();
+  if (message.has_max_matrix_entries()) limits.max_matrix_entries = message.max_matrix_entries();
+  try {
+    sc::ValidateScheduleLimits(limits);
+  } catch (const Error& error) {
+    throw error.WithinField("limits");
+  }
   return limits;
 }
 

@@ -1,11 +1,11 @@
 #include "core/schedule/designer.h"
 
+#include <gtest/gtest.h>
+
 #include <cmath>
 #include <functional>
 #include <limits>
 #include <string>
-
-#include <gtest/gtest.h>
 
 #include "core/common/error.h"
 #include "core/schedule/wrapped_normal.h"
@@ -16,7 +16,9 @@ namespace {
 constexpr double kPi = 3.14159265358979323846;
 const ScheduleLimits kLimits;
 
-double RelDiff(double a, double b) { return std::fabs(a - b) / std::max(std::fabs(b), 1e-300); }
+double RelDiff(double a, double b) {
+  return std::fabs(a - b) / std::max(std::fabs(b), 1e-300);
+}
 
 TEST(Designer, MeetsTheTerminalSnrForEveryKind) {
   for (VarianceKind kind : {VarianceKind::kLinear, VarianceKind::kCosine, VarianceKind::kSigmoid,
@@ -36,7 +38,8 @@ TEST(Designer, MeetsTheTerminalSnrForEveryKind) {
         EXPECT_EQ(d.diagnostics.achieved_terminal_snr, table.back().snr);
         EXPECT_EQ(d.diagnostics.achieved_initial_snr, table.front().snr);
         if (kind == VarianceKind::kLinear || kind == VarianceKind::kLogSnrLinear) {
-          EXPECT_LT(RelDiff(table.front().snr, targets.initial_snr), 1e-6) << static_cast<int>(kind);
+          EXPECT_LT(RelDiff(table.front().snr, targets.initial_snr), 1e-6)
+              << static_cast<int>(kind);
         }
         double max_step = 0;
         for (size_t i = 1; i < table.size(); ++i) {
@@ -116,7 +119,12 @@ TEST(DesignerValidation, EveryErrorNamesItsField) {
   EXPECT_EQ(FieldOf([](auto& t) { t.sigma_kind = static_cast<SigmaKind>(7); }, arg), "sigma_kind");
   // 1000 steps at a constant beta = 1/(1 + 1e4) already end at SNR 9.5 < 10: a linear schedule
   // cannot stop higher.
-  EXPECT_EQ(FieldOf([](auto& t) { t.variance_kind = VarianceKind::kLinear; t.terminal_snr = 10; }, arg),
+  EXPECT_EQ(FieldOf(
+                [](auto& t) {
+                  t.variance_kind = VarianceKind::kLinear;
+                  t.terminal_snr = 10;
+                },
+                arg),
             "terminal_snr");
   // sigma_min = 2.5 / 5 = 0.5 is already within 0.005 of uniform (TV 4.6e-3).
   EXPECT_EQ(FieldOf([](auto& t) { t.resolution_angstrom = 2.5; }, arg), "tv_distance");

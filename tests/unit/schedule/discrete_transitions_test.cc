@@ -1,11 +1,11 @@
 #include "core/schedule/discrete_transitions.h"
 
+#include <gtest/gtest.h>
+
 #include <cmath>
 #include <functional>
 #include <limits>
 #include <string>
-
-#include <gtest/gtest.h>
 
 #include "core/common/error.h"
 
@@ -137,12 +137,15 @@ TEST(TransitionValidation, EveryErrorNamesItsField) {
   EXPECT_EQ(FieldOf(build([](auto& p) { p.retention = static_cast<RetentionKind>(9); }), arg),
             "retention");
   EXPECT_EQ(FieldOf([] { TransitionMatrix(TransitionKind::kUniform, 4, 1.5); }, arg), "beta");
-  EXPECT_EQ(FieldOf([] { TransitionMatrix(TransitionKind::kUniform, 4, std::nan("")); }, arg), "beta");
-  EXPECT_EQ(FieldOf([] { TransitionMatrix(TransitionKind::kUniform, 1, 0.5); }, arg), "num_classes");
+  EXPECT_EQ(FieldOf([] { TransitionMatrix(TransitionKind::kUniform, 4, std::nan("")); }, arg),
+            "beta");
+  EXPECT_EQ(FieldOf([] { TransitionMatrix(TransitionKind::kUniform, 1, 0.5); }, arg),
+            "num_classes");
   EXPECT_EQ(FieldOf([] { CumulativeTransitionMatrix(TransitionKind::kAbsorbing, 4, -0.1); }, arg),
             "alpha_bar");
-  EXPECT_EQ(FieldOf([] { CumulativeTransitionMatrix(TransitionKind::kAbsorbing, 5000, 0.5); }, limit),
-            "num_classes");
+  EXPECT_EQ(
+      FieldOf([] { CumulativeTransitionMatrix(TransitionKind::kAbsorbing, 5000, 0.5); }, limit),
+      "num_classes");
 }
 
 }  // namespace

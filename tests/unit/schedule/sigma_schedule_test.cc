@@ -1,11 +1,11 @@
 #include "core/schedule/sigma_schedule.h"
 
+#include <gtest/gtest.h>
+
 #include <cmath>
 #include <functional>
 #include <limits>
 #include <string>
-
-#include <gtest/gtest.h>
 
 #include "core/common/error.h"
 #include "core/schedule/wrapped_normal.h"
@@ -94,7 +94,8 @@ TEST(SigmaValidation, EveryErrorNamesItsField) {
   const ErrorKind arg = ErrorKind::kInvalidArgument;
   EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = 0; }), arg), "steps");
   EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = ScheduleLimits::kDefaultMaxSteps + 1; }),
-                    ErrorKind::kLimitExceeded), "steps");
+                    ErrorKind::kLimitExceeded),
+            "steps");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.sigma_min = nan; }), arg), "sigma_min");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.sigma_min = 0.0; }), arg), "sigma_min");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.sigma_min = -0.01; }), arg), "sigma_min");

@@ -1,11 +1,11 @@
 #include "core/schedule/variance_schedule.h"
 
+#include <gtest/gtest.h>
+
 #include <cmath>
 #include <functional>
 #include <limits>
 #include <string>
-
-#include <gtest/gtest.h>
 
 #include "core/common/error.h"
 
@@ -131,7 +131,8 @@ TEST(LogSnrShift, MovesEveryLogSnrByTheShift) {
       const auto shifted = BuildVarianceSchedule(p, kLimits);
       for (size_t i = 0; i < base.size(); ++i) {
         EXPECT_NEAR(shifted[i].log_snr - base[i].log_snr, shift,
-                    1e-12 * std::max(1.0, std::fabs(base[i].log_snr))) << i;
+                    1e-12 * std::max(1.0, std::fabs(base[i].log_snr)))
+            << i;
         // The betas are recomputed from the new alpha_bar (alpha_bar_0 = 1 still).
         const double prev = i == 0 ? 1.0 : shifted[i - 1].alpha_bar;
         EXPECT_LT(RelDiff(shifted[i].alpha_bar, prev * (1 - shifted[i].beta)), 1e-12) << i;
@@ -214,14 +215,18 @@ TEST(Posterior, MatchesProductOfGaussians) {
         for (double xt : {-0.7, 0.4}) {
           const long double mean =
               variance * (std::sqrt(ab_prev) * x0 / prior_var + std::sqrt(alpha) * xt / beta);
-          const double got = rows[i].posterior_mean_coef_x0 * x0 + rows[i].posterior_mean_coef_xt * xt;
-          EXPECT_NEAR(got, static_cast<double>(mean), 1e-11 * (1 + std::fabs(static_cast<double>(mean))))
+          const double got =
+              rows[i].posterior_mean_coef_x0 * x0 + rows[i].posterior_mean_coef_xt * xt;
+          EXPECT_NEAR(got, static_cast<double>(mean),
+                      1e-11 * (1 + std::fabs(static_cast<double>(mean))))
               << "t " << rows[i].t;
         }
       }
-      EXPECT_LT(RelDiff(rows[i].posterior_variance, static_cast<double>(variance)), 1e-11) << rows[i].t;
-      EXPECT_LT(RelDiff(rows[i].posterior_log_variance_clipped, std::log(rows[i].posterior_variance)),
-                1e-15);
+      EXPECT_LT(RelDiff(rows[i].posterior_variance, static_cast<double>(variance)), 1e-11)
+          << rows[i].t;
+      EXPECT_LT(
+          RelDiff(rows[i].posterior_log_variance_clipped, std::log(rows[i].posterior_variance)),
+          1e-15);
     }
     // t = 1: alpha_bar_0 = 1, the prior is a point mass at x0.
     EXPECT_EQ(rows[0].posterior_variance, 0.0);
@@ -268,7 +273,8 @@ TEST(VarianceValidation, EveryErrorNamesItsField) {
   const ErrorKind arg = ErrorKind::kInvalidArgument, limit = ErrorKind::kLimitExceeded;
   EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = 0; }), arg), "steps");
   EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = -5; }), arg), "steps");
-  EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = ScheduleLimits::kDefaultMaxSteps + 1; }), limit), "steps");
+  EXPECT_EQ(FieldOf(bad([](auto& p) { p.steps = ScheduleLimits::kDefaultMaxSteps + 1; }), limit),
+            "steps");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.beta_start = nan; }), arg), "beta_start");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.beta_start = -1e-4; }), arg), "beta_start");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.beta_end = inf; }), arg), "beta_end");
@@ -286,7 +292,11 @@ TEST(VarianceValidation, EveryErrorNamesItsField) {
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.log_snr_shift = inf; }), arg), "log_snr_shift");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.respaced_steps = 1001; }), arg), "respaced_steps");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.respaced_steps = -1; }), arg), "respaced_steps");
-  EXPECT_EQ(FieldOf(bad([&](auto& p) { p.steps = 1; p.zero_terminal_snr = true; }), arg),
+  EXPECT_EQ(FieldOf(bad([&](auto& p) {
+                      p.steps = 1;
+                      p.zero_terminal_snr = true;
+                    }),
+                    arg),
             "zero_terminal_snr");
   EXPECT_EQ(FieldOf(bad([&](auto& p) { p.kind = static_cast<VarianceKind>(99); }), arg), "kind");
   ScheduleLimits huge;
@@ -303,6 +313,16 @@ TEST(VarianceValidation, NoNoiseAtStepOneIsNumerical) {
   p.log_snr_max = 800;
   p.log_snr_min = 790;
   EXPECT_EQ(FieldOf(p, ErrorKind::kNumerical), "log_snr_max");
+  // The same through a shift: 60 + 700 is past double precision too.
+  p.log_snr_max = 60;
+  p.log_snr_min = 50;
+  EXPECT_EQ(FieldOf(p, ErrorKind::kNumerical), "no error");
+  p.log_snr_shift = 700;
+  EXPECT_EQ(FieldOf(p, ErrorKind::kNumerical), "log_snr_shift");
+  // A sigmoid this steep (start/tau = -750) moves alpha_bar by less than e^{-745} at step 1.
+  VarianceParams steep = Params(VarianceKind::kSigmoid, 1000);
+  steep.sigmoid_tau = 0.004;
+  EXPECT_EQ(FieldOf(steep, ErrorKind::kNumerical), "sigmoid_start");
 }
 
 }  // namespace
