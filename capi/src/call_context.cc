@@ -8,7 +8,8 @@ void CallContext::Log(int32_t level, const std::string& line) const {
 
 bool CallContext::ReportProgress(double fraction, const char* stage) const {
   if (progress_ == nullptr) return true;
-  return progress_(fraction, stage, user_data_) == 0;
+  if (progress_(fraction, stage, user_data_) != 0) cancelled_ = true;
+  return !cancelled_;
 }
 
 }  // namespace nucleate::capi

@@ -14,13 +14,16 @@ class CallContext {
       : log_(log), progress_(progress), user_data_(user_data) {}
 
   void Log(int32_t level, const std::string& line) const;
-  // False when the caller asked to cancel.
+  // False when the caller asked to cancel; the handler then stops, keeps what it finished in the
+  // reply, and returns. The dispatcher turns that into NUCLEATE_ERROR_CANCELLED.
   bool ReportProgress(double fraction, const char* stage) const;
+  bool cancelled() const { return cancelled_; }
 
  private:
   nucleate_log_fn log_;
   nucleate_progress_fn progress_;
   void* user_data_;
+  mutable bool cancelled_ = false;  // one call, one thread: no synchronisation needed
 };
 
 }  // namespace nucleate::capi

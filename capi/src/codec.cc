@@ -32,6 +32,8 @@ void DecodeMessage(const void* bytes, size_t size, int32_t encoding, const std::
                       what + " of " + std::to_string(size) + " bytes is too large to parse"};
   }
   if (encoding == NUCLEATE_ENCODING_JSON) {
+    // Zero bytes are the empty message in either encoding, as the header promises.
+    if (size == 0) return;
     pb::util::JsonParseOptions options;
     options.ignore_unknown_fields = false;
     const pb::util::Status status = pb::util::JsonStringToMessage(

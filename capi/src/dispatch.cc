@@ -3,6 +3,7 @@
 #include <new>
 
 #include "codec.h"
+#include "error_detail.h"
 #include "core/common/error.h"
 #include "methods/schedule_methods.h"
 #include "methods/version_method.h"
@@ -35,11 +36,7 @@ DispatchOutcome Fail(const char* method, int32_t encoding, const CallFailure& fa
   outcome.status = failure.status;
   outcome.message = OneLine(failure.message);
   nucleate::v1::ErrorDetail detail;
-  detail.set_code(failure.status);
-  detail.set_status(nucleate_status_name(failure.status));
-  detail.set_message(outcome.message);
-  detail.set_field(failure.field);
-  if (method != nullptr) detail.set_method(method);
+  FillErrorDetail(failure.status, outcome.message, failure.field, method ? method : "", &detail);
   const int32_t reply_encoding =
       encoding == NUCLEATE_ENCODING_JSON ? NUCLEATE_ENCODING_JSON : NUCLEATE_ENCODING_BINARY;
   try {
@@ -103,6 +100,12 @@ DispatchOutcome Dispatch(const char* method, const void* request, size_t request
     entry->handler(*parsed, reply.get(), context);
     DispatchOutcome outcome;
     outcome.reply = EncodeMessage(*reply, encoding);
+    if (context.cancelled()) {
+      // The reply keeps what was finished before the caller asked to stop.
+      outcome.status = NUCLEATE_ERROR_CANCELLED;
+      outcome.message = std::string(method) +
+                        ": cancelled by the progress callback; the reply holds the finished part";
+    }
     return outcome;
   } catch (const CallFailure& failure) {
     return Fail(method, encoding, failure);

@@ -106,6 +106,17 @@ int equal_ignoring_final_newline(const char* a, size_t a_size, const char* b, si
   return a_size == b_size && (a_size == 0 || memcmp(a, b, a_size) == 0);
 }
 
+/* Replies are long single lines: show where they part, with some context on both sides. */
+static void print_difference(const char* name, const char* got, size_t got_size,
+                             const char* expected, size_t expected_size) {
+  size_t at = 0, from;
+  while (at < got_size && at < expected_size && got[at] == expected[at]) ++at;
+  from = at > 40 ? at - 40 : 0;
+  printf("FAIL %s: reply differs at byte %lu (of %lu, expected %lu)\n", name, (unsigned long)at,
+         (unsigned long)got_size, (unsigned long)expected_size);
+  printf("  got:      ...%.80s\n  expected: ...%.80s\n", got + from, expected + from);
+}
+
 /* Runs one case; returns 1 if it passed, printing why not otherwise. */
 static int run_case(const char* directory, const char* name, case_call_fn call,
                     case_free_fn release) {
@@ -131,8 +142,8 @@ static int run_case(const char* directory, const char* name, case_call_fn call,
     } else if (reply == NULL ||
                !equal_ignoring_final_newline((const char*)reply, reply_size, expected,
                                              expected_size)) {
-      printf("FAIL %s: reply differs\n  got:      %.*s\n  expected: %s\n", name,
-             (int)reply_size, reply != NULL ? (const char*)reply : "", expected);
+      print_difference(name, reply != NULL ? (const char*)reply : "", reply_size, expected,
+                       expected_size);
     } else if (status == NUCLEATE_OK && message != NULL) {
       printf("FAIL %s: a message on success: %s\n", name, message);
     } else if (status != NUCLEATE_OK &&

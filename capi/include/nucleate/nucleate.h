@@ -96,8 +96,10 @@ NUCLEATE_API int32_t nucleate_abi_version(void);
  *   request       in   request_size bytes of the method's request message; may be NULL when
  *                      request_size is 0 (an empty message). Not kept after the call.
  *   encoding      in   NUCLEATE_ENCODING_BINARY or NUCLEATE_ENCODING_JSON; the reply uses the same.
- *   reply         out  On NUCLEATE_OK, the reply message. On failure, a nucleate.v1.ErrorDetail
- *                      (binary if the encoding was bad). Free with nucleate_free. Required.
+ *   reply         out  On NUCLEATE_OK, the reply message. On NUCLEATE_ERROR_CANCELLED, the reply
+ *                      message with the part finished before the cancel. On any other failure,
+ *                      a nucleate.v1.ErrorDetail (binary if the encoding was bad). Free with
+ *                      nucleate_free. Required.
  *   reply_size    out  Bytes in *reply (JSON is NUL-terminated beyond reply_size). Required.
  *   message       out  On failure, a one-line NUL-terminated message naming what was wrong and
  *                      where; NULL on success. Free with nucleate_free. May be NULL if unwanted.
