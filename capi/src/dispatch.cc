@@ -5,6 +5,7 @@
 #include "codec.h"
 #include "error_detail.h"
 #include "core/common/error.h"
+#include "methods/check_method.h"
 #include "methods/schedule_methods.h"
 #include "methods/version_method.h"
 #include "nucleate/v1/error.pb.h"
@@ -62,6 +63,7 @@ const std::vector<MethodEntry>& Methods() {
       ScheduleMethod(),
       DesignScheduleMethod(),
       WrappedNormalMethod(),
+      CheckMethod(),
   };
   return kMethods;
 }

@@ -38,26 +38,6 @@ void RequireThreshold(bool ok, const char* field, const std::string& message) {
   if (!ok) throw InvalidArgument(field, message);
 }
 
-void ValidateThresholds(const ValidityThresholds& t) {
-  auto non_negative = [](double x) { return std::isfinite(x) && x >= 0; };
-  RequireThreshold(non_negative(t.min_distance), "min_distance", "must be finite and >= 0");
-  RequireThreshold(non_negative(t.min_covalent_fraction), "min_covalent_fraction",
-                   "must be finite and >= 0");
-  RequireThreshold(non_negative(t.min_volume_per_atom), "min_volume_per_atom", "must be finite and >= 0");
-  RequireThreshold(!std::isnan(t.max_volume_per_atom) && t.max_volume_per_atom >= t.min_volume_per_atom,
-                   "max_volume_per_atom", "must be >= min_volume_per_atom");
-  RequireThreshold(std::isfinite(t.min_angle) && t.min_angle >= 0 && t.min_angle < 180, "min_angle",
-                   "must lie in 0..180 degrees");
-  RequireThreshold(std::isfinite(t.max_angle) && t.max_angle > t.min_angle && t.max_angle <= 180,
-                   "max_angle", "must lie above min_angle and at most 180 degrees");
-  RequireThreshold(!std::isnan(t.max_axis_ratio) && t.max_axis_ratio >= 1, "max_axis_ratio",
-                   "must be >= 1");
-  RequireThreshold(t.charge_search.max_combinations >= 1, "charge_search.max_combinations",
-                   "must be >= 1");
-  RequireThreshold(t.charge_search.max_sites_mixed_valence >= 0,
-                   "charge_search.max_sites_mixed_valence", "must be >= 0");
-}
-
 void CheckCell(const Crystal& crystal, const ValidityThresholds& t, ValidityResult& r) {
   const structure::LatticeParameters p = structure::ParametersFromMatrix(crystal.lattice);
   const std::pair<const char*, double> angles[3] = {{"alpha", p.alpha}, {"beta", p.beta}, {"gamma", p.gamma}};
@@ -167,6 +147,26 @@ const char* ProblemCodeName(ProblemCode code) {
     case ProblemCode::kElectronegativityOrder: return "electronegativity_order";
   }
   return "unknown";
+}
+
+void ValidateThresholds(const ValidityThresholds& t) {
+  auto non_negative = [](double x) { return std::isfinite(x) && x >= 0; };
+  RequireThreshold(non_negative(t.min_distance), "min_distance", "must be finite and >= 0");
+  RequireThreshold(non_negative(t.min_covalent_fraction), "min_covalent_fraction",
+                   "must be finite and >= 0");
+  RequireThreshold(non_negative(t.min_volume_per_atom), "min_volume_per_atom", "must be finite and >= 0");
+  RequireThreshold(!std::isnan(t.max_volume_per_atom) && t.max_volume_per_atom >= t.min_volume_per_atom,
+                   "max_volume_per_atom", "must be >= min_volume_per_atom");
+  RequireThreshold(std::isfinite(t.min_angle) && t.min_angle >= 0 && t.min_angle < 180, "min_angle",
+                   "must lie in 0..180 degrees");
+  RequireThreshold(std::isfinite(t.max_angle) && t.max_angle > t.min_angle && t.max_angle <= 180,
+                   "max_angle", "must lie above min_angle and at most 180 degrees");
+  RequireThreshold(!std::isnan(t.max_axis_ratio) && t.max_axis_ratio >= 1, "max_axis_ratio",
+                   "must be >= 1");
+  RequireThreshold(t.charge_search.max_combinations >= 1, "charge_search.max_combinations",
+                   "must be >= 1");
+  RequireThreshold(t.charge_search.max_sites_mixed_valence >= 0,
+                   "charge_search.max_sites_mixed_valence", "must be >= 0");
 }
 
 ValidityResult CheckValidity(const Crystal& crystal, const ValidityThresholds& thresholds,

@@ -71,6 +71,10 @@ struct ValidityResult {
   std::vector<int> radioactive_elements;
 };
 
+// InvalidArgument naming the threshold ("min_distance", ...) that is NaN, negative or out of
+// order. CheckValidity calls it too; a caller checking many structures may call it once first.
+void ValidateThresholds(const ValidityThresholds& thresholds);
+
 // Raises InvalidArgument naming the threshold ("min_distance", ...) for a threshold that is NaN,
 // negative or out of order, and LimitExceeded like ValidateCrystal for a structure above `limits`
 // (those are refusals of the request; every other defect is reported as a problem).

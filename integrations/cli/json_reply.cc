@@ -1,6 +1,8 @@
 #include "json_reply.h"
 
+#include <algorithm>
 #include <cmath>
+#include <cstdint>
 #include <cstdio>
 #include <cstdlib>
 #include <limits>
@@ -54,6 +56,61 @@ double AsDouble(const YAML::Node& node) {
     throw std::runtime_error("reply holds '" + text + "' where a number was expected");
   }
   return value;
+}
+
+}  // namespace nucleate::cli
+
+namespace nucleate::cli {
+
+std::string Base64(const std::string& bytes) {
+  static const char kAlphabet[] =
+      "ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
+  std::string out;
+  out.reserve((bytes.size() + 2) / 3 * 4);
+  for (std::size_t i = 0; i < bytes.size(); i += 3) {
+    const std::size_t n = std::min<std::size_t>(3, bytes.size() - i);
+    std::uint32_t chunk = 0;
+    for (std::size_t k = 0; k < 3; ++k) {
+      chunk = (chunk << 8) | (k < n ? static_cast<unsigned char>(bytes[i + k]) : 0u);
+    }
+    for (std::size_t k = 0; k < 4; ++k) {
+      out += k <= n ? kAlphabet[(chunk >> (18 - 6 * k)) & 0x3f] : '=';
+    }
+  }
+  return out;
+}
+
+std::vector<std::string> JsonArrayElements(const std::string& json, const std::string& key) {
+  const std::string marker = "\"" + key + "\":[";
+  const std::size_t start = json.find(marker);
+  std::vector<std::string> elements;
+  if (start == std::string::npos) return elements;
+  int depth = 0;
+  bool in_string = false;
+  std::size_t element_start = start + marker.size();
+  for (std::size_t i = element_start; i < json.size(); ++i) {
+    const char c = json[i];
+    if (in_string) {
+      if (c == '\\') ++i;
+      else if (c == '"') in_string = false;
+      continue;
+    }
+    if (c == '"') {
+      in_string = true;
+    } else if (c == '{' || c == '[') {
+      ++depth;
+    } else if (c == '}' || c == ']') {
+      if (depth == 0) {  // the array's own closing bracket
+        if (i > element_start) elements.push_back(json.substr(element_start, i - element_start));
+        break;
+      }
+      --depth;
+    } else if (c == ',' && depth == 0) {
+      elements.push_back(json.substr(element_start, i - element_start));
+      element_start = i + 1;
+    }
+  }
+  return elements;
 }
 
 }  // namespace nucleate::cli

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include <yaml-cpp/yaml.h>
 
@@ -20,5 +21,16 @@ std::string JsonNumber(double value);
 
 // A reply scalar as a number; protobuf JSON quotes int64 values and non-finite doubles.
 double AsDouble(const YAML::Node& node);
+
+}  // namespace nucleate::cli
+
+namespace nucleate::cli {
+
+// Bytes as protobuf JSON writes a bytes field: standard base64 with padding (RFC 4648).
+std::string Base64(const std::string& bytes);
+
+// The elements of the array under top-level `key` of a compact JSON object, each as its own JSON
+// text, without re-encoding anything (the library's replies are valid JSON).
+std::vector<std::string> JsonArrayElements(const std::string& json, const std::string& key);
 
 }  // namespace nucleate::cli

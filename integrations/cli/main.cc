@@ -8,6 +8,7 @@
 #include <CLI/CLI.hpp>
 
 #include "abi_client.h"
+#include "check_command.h"
 #include "design_command.h"
 #include "nucleate/nucleate.h"
 #include "schedule_command.h"
@@ -53,6 +54,7 @@ int main(int argc, char** argv) {
   AddCallCommand(app, &run);
   nucleate::cli::AddScheduleCommand(app, &run);
   nucleate::cli::AddDesignCommand(app, &run);
+  nucleate::cli::AddCheckCommand(app, &run);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

@@ -9,6 +9,7 @@
 #include "core/schedule/sigma_schedule.h"
 #include "core/schedule/variance_schedule.h"
 #include "core/schedule/wrapped_normal.h"
+#include "methods/within_field.h"
 #include "nucleate/v1/schedule.pb.h"
 
 namespace nucleate::capi {
@@ -24,11 +25,7 @@ sc::ScheduleLimits FromMessage(const v1::ScheduleLimits& message) {
   if (message.has_max_steps()) limits.max_steps = message.max_steps();
   if (message.has_max_classes()) limits.max_classes = message.max_classes();
   if (message.has_max_matrix_entries()) limits.max_matrix_entries = message.max_matrix_entries();
-  try {
-    sc::ValidateScheduleLimits(limits);
-  } catch (const Error& error) {
-    throw error.WithinField("limits");
-  }
+  WithinField("limits", [&] { sc::ValidateScheduleLimits(limits); });
   return limits;
 }
 
@@ -203,16 +200,6 @@ void AppendMatrix(const Eigen::MatrixXd& matrix,
 }
 
 // ---- handlers ---------------------------------------------------------------------------------
-
-// Runs `body`, placing any core error's field inside `parent` so it reads as the request path.
-template <class Body>
-void WithinField(const char* parent, Body&& body) {
-  try {
-    body();
-  } catch (const Error& error) {
-    throw error.WithinField(parent);
-  }
-}
 
 void HandleSchedule(const v1::ScheduleRequest& request, v1::ScheduleTable* reply,
                     const CallContext&) {

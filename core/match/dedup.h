@@ -1,0 +1,53 @@
+// Grouping of equivalent structures (Deduplicate) and look-up of candidates among known
+// structures (Novelty), near-linear in the number of structures: each structure is prepared and
+// fingerprinted once (fingerprint.h), and only pairs in the same or adjacent fingerprint cells
+// that pass the fingerprint screen are matched pairwise (structure_matcher.h).
+#pragma once
+
+#include <cstdint>
+#include <vector>
+
+#include "core/match/tolerances.h"
+#include "core/structure/crystal.h"
+
+namespace nucleate::match {
+
+enum class DedupScreen {
+  kFingerprint,  // key + grid + value screen (fingerprint.h): the default, near-linear
+  kFormulaOnly,  // only the exact key (reduced formula, site count): every pair of one formula is
+                 // matched; quadratic, for small sets where no screened-out pair is acceptable
+};
+
+struct DedupResult {
+  // Groups in order of their representative; each lists input indices ascending, the first being
+  // the representative.
+  std::vector<std::vector<int>> groups;
+  std::vector<int> group_of;      // per input structure: its group's position in `groups`
+  std::int64_t pairs_matched = 0; // pairwise matches run (cost measure, same for any thread count)
+};
+
+// Greedy in input order: structure i joins the group of the lowest-index representative it
+// matches (MatchPrepared(i, representative)); if none, it founds a new group. The result is that
+// of this sequential rule for any thread count: work is done in chunks, each chunk first matched
+// in parallel against the representatives of earlier chunks, then its unmatched members
+// resolved in order. `threads` >= 1; 0 means std::thread::hardware_concurrency().
+// Raises InvalidArgument("threads") for a negative count, and any error of Prepare for
+// structure k inside field "structures[k]" (the lowest such k).
+DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
+                        const MatchTolerances& tolerances, int threads,
+                        DedupScreen screen = DedupScreen::kFingerprint);
+
+struct NoveltyResult {
+  std::vector<char> novel;        // per candidate: 1 when it matches no reference
+  std::vector<int> reference;     // per candidate: lowest index of a matching reference, or -1
+  std::int64_t pairs_matched = 0;
+};
+
+// For each candidate, whether it matches any reference (MatchPrepared(candidate, reference)).
+// Errors name "candidates[k]" or "references[k]".
+NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
+                      const std::vector<structure::Crystal>& references,
+                      const MatchTolerances& tolerances, int threads,
+                      DedupScreen screen = DedupScreen::kFingerprint);
+
+}  // namespace nucleate::match

@@ -1,0 +1,46 @@
+// Are two crystals the same structure, up to the choice of cell, origin, atom order, rotation
+// (and reflection), and a distortion within tolerance?
+//
+// The method (lattice-mapping enumeration, then site assignment): both crystals are prepared
+// (prepared_crystal.h: primitive cell, shortest basis, equal volume per atom). Every basis of A's
+// lattice that resembles B's shortest basis within the length and angle tolerances is a candidate
+// cell (lattice_mapping.h). For each, A's sites are re-expressed in that basis; distances are
+// measured in the cell whose parameters are the average of the two cells' parameters, in units of
+// (V/N)^(1/3) of that average cell. Trial origins align one site of B's least frequent element onto
+// each site of that element in A; under each, every element's sites are paired by an exact
+// assignment and the mean displacement is removed (site_assignment.h). A and B match when some
+// candidate and origin leave every site within the site tolerance.
+#pragma once
+
+#include <string>
+
+#include "core/match/prepared_crystal.h"
+#include "core/match/tolerances.h"
+#include "core/structure/crystal.h"
+
+namespace nucleate::match {
+
+struct MatchResult {
+  bool match = false;
+  // Of the best candidate: among matching ones the lowest rms; without a match, the one with the
+  // smallest largest displacement. In units of (V/N)^(1/3); NaN when no site assignment was
+  // reached (composition, site count or lattice differ).
+  double rms = 0;
+  double max_displacement = 0;
+  // Empty on a match; otherwise "composition differs", "site counts differ: 2 vs 3",
+  // "no lattice mapping within tolerance" or "sites too far: max 0.41 > 0.3".
+  std::string reason;
+};
+
+// Raises InvalidArgument for bad tolerances, and what ValidateCrystal raises (naming the field)
+// for a malformed crystal.
+MatchResult MatchStructures(const structure::Crystal& a, const structure::Crystal& b,
+                            const MatchTolerances& tolerances);
+
+// The same on prepared crystals (both prepared with `tolerances`). With stop_at_first_match the
+// search ends at the first matching candidate, whose rms need not be the lowest: dedup only needs
+// the verdict.
+MatchResult MatchPrepared(const PreparedCrystal& a, const PreparedCrystal& b,
+                          const MatchTolerances& tolerances, bool stop_at_first_match = false);
+
+}  // namespace nucleate::match
