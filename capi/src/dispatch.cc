@@ -6,6 +6,8 @@
 #include "error_detail.h"
 #include "core/common/error.h"
 #include "methods/check_method.h"
+#include "methods/convert_method.h"
+#include "methods/match_methods.h"
 #include "methods/schedule_methods.h"
 #include "methods/version_method.h"
 #include "nucleate/v1/error.pb.h"
@@ -64,6 +66,9 @@ const std::vector<MethodEntry>& Methods() {
       DesignScheduleMethod(),
       WrappedNormalMethod(),
       CheckMethod(),
+      MatchMethod(),
+      DedupMethod(),
+      ConvertMethod(),
   };
   return kMethods;
 }

@@ -10,10 +10,16 @@
 namespace nucleate::structure {
 namespace {
 
-std::string Formula(const std::map<int, int>& counts, int divisor) {
-  std::vector<std::pair<std::string, int>> terms;
+std::string Formula(const std::map<int, long long>& counts, long long divisor,
+                    const std::string& separator) {
+  std::vector<std::pair<std::string, long long>> terms;
   for (const auto& [number, count] : counts) {
-    terms.emplace_back(elements::FindElement(number)->symbol, count / divisor);
+    const elements::Element* element = elements::FindElement(number);
+    if (element == nullptr) {
+      throw InvalidArgument("atomic_numbers", "not an atomic number in 1..118: " +
+                                                  std::to_string(number));
+    }
+    if (count > 0) terms.emplace_back(element->symbol, count / divisor);
   }
   const bool has_carbon = counts.count(6) > 0;
   auto rank = [has_carbon](const std::string& symbol) {
@@ -26,6 +32,7 @@ std::string Formula(const std::map<int, int>& counts, int divisor) {
   });
   std::string out;
   for (const auto& [symbol, count] : terms) {
+    if (!out.empty()) out += separator;
     out += symbol;
     if (count != 1) out += std::to_string(count);
   }
@@ -34,8 +41,8 @@ std::string Formula(const std::map<int, int>& counts, int divisor) {
 
 }  // namespace
 
-std::map<int, int> CountElements(const std::vector<int>& numbers) {
-  std::map<int, int> counts;
+std::map<int, long long> CountElements(const std::vector<int>& numbers) {
+  std::map<int, long long> counts;
   for (std::size_t i = 0; i < numbers.size(); ++i) {
     if (elements::FindElement(numbers[i]) == nullptr) {
       throw InvalidArgument("atomic_numbers[" + std::to_string(i) + "]",
@@ -47,14 +54,18 @@ std::map<int, int> CountElements(const std::vector<int>& numbers) {
 }
 
 std::string HillFormula(const std::vector<int>& numbers) {
-  return Formula(CountElements(numbers), 1);
+  return Formula(CountElements(numbers), 1, "");
+}
+
+std::string HillFormula(const std::map<int, long long>& counts, const std::string& separator) {
+  return Formula(counts, 1, separator);
 }
 
 std::string ReducedHillFormula(const std::vector<int>& numbers) {
-  const std::map<int, int> counts = CountElements(numbers);
-  int divisor = 0;
+  const std::map<int, long long> counts = CountElements(numbers);
+  long long divisor = 0;
   for (const auto& entry : counts) divisor = std::gcd(divisor, entry.second);
-  return Formula(counts, std::max(divisor, 1));
+  return Formula(counts, std::max(divisor, 1LL), "");
 }
 
 }  // namespace nucleate::structure

@@ -11,6 +11,7 @@
 #include <Eigen/Dense>
 
 #include "core/structure/crystal.h"
+#include "core/structure/symmetry_operation.h"
 
 namespace nucleate::symmetry {
 
@@ -25,11 +26,7 @@ enum class CrystalSystem { kTriclinic, kMonoclinic, kOrthorhombic, kTetragonal, 
 CrystalSystem CrystalSystemOf(int space_group_number);
 const char* CrystalSystemName(CrystalSystem system);  // "triclinic", ..., "cubic"
 
-// One symmetry operation on fractional coordinates: x' = rotation * x + translation.
-struct SymmetryOperation {
-  Eigen::Matrix3i rotation = Eigen::Matrix3i::Identity();
-  Eigen::Vector3d translation = Eigen::Vector3d::Zero();
-};
+using structure::SymmetryOperation;
 
 struct SymmetryInfo {
   int number = 0;                  // space-group type, 1..230

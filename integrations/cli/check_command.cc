@@ -1,13 +1,12 @@
 #include "check_command.h"
 
 #include <cstdio>
-#include <fstream>
 #include <iostream>
-#include <iterator>
 #include <memory>
 
 #include "abi_client.h"
 #include "json_reply.h"
+#include "structure_files.h"
 
 namespace nucleate::cli {
 namespace {
@@ -23,12 +22,6 @@ struct CheckOptions {
   CLI::Option* symprec_option = nullptr;
   CLI::Option* min_distance_option = nullptr;
 };
-
-// The library tells the format from the name (.cif, .xyz, .extxyz, .json).
-std::string FileInput(const std::string& path, const std::string& content) {
-  return "{\"file\":{\"name\":" + JsonQuote(path) + ",\"content\":\"" + Base64(content) +
-         "\"}}";
-}
 
 std::string Text(const YAML::Node& node) { return node ? node.as<std::string>() : ""; }
 
@@ -64,20 +57,8 @@ void PrintReport(const YAML::Node& r) {
 }
 
 int RunCheck(const CheckOptions& options) {
-  std::string inputs;
   int unreadable_files = 0;
-  for (const std::string& path : options.files) {
-    std::ifstream file(path, std::ios::binary);
-    if (!file) {
-      std::cerr << "nucleate: " << path << ": cannot read the file\n";
-      ++unreadable_files;
-      continue;
-    }
-    const std::string content{std::istreambuf_iterator<char>(file),
-                              std::istreambuf_iterator<char>()};
-    inputs += (inputs.empty() ? "" : ",") + FileInput(path, content);
-  }
-  std::string request = "{\"inputs\":[" + inputs + "]";
+  std::string request = "{\"inputs\":" + FileInputsJson(options.files, &unreadable_files);
   if (options.symprec_option->count() > 0) request += ",\"symprec\":" + JsonNumber(options.symprec);
   if (options.min_distance_option->count() > 0) {
     request += ",\"thresholds\":{\"min_distance\":" + JsonNumber(options.min_distance) + "}";

@@ -9,6 +9,8 @@
 
 #include "abi_client.h"
 #include "check_command.h"
+#include "convert_command.h"
+#include "match_command.h"
 #include "design_command.h"
 #include "nucleate/nucleate.h"
 #include "schedule_command.h"
@@ -55,6 +57,9 @@ int main(int argc, char** argv) {
   nucleate::cli::AddScheduleCommand(app, &run);
   nucleate::cli::AddDesignCommand(app, &run);
   nucleate::cli::AddCheckCommand(app, &run);
+  nucleate::cli::AddMatchCommand(app, &run);
+  nucleate::cli::AddDedupCommand(app, &run);
+  nucleate::cli::AddConvertCommand(app, &run);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

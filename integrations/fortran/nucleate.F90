@@ -7,6 +7,9 @@
 !
 ! Requests and replies are protobuf JSON (see schemas/nucleate/v1 in the source tree); the typed
 ! wrappers below build the request and read the reply for you.
+!
+! Structures as plain arrays, in angstrom: lattice(:, i) is cell vector i (a, b, c) in Cartesian
+! coordinates; frac(:, j) the fractional coordinates of atom j; numbers(j) its atomic number.
 module nucleate
   use, intrinsic :: iso_c_binding, only: c_char, c_int32_t, c_size_t, c_double, c_ptr, &
     c_null_ptr, c_null_char, c_associated, c_f_pointer, c_loc
@@ -32,6 +35,7 @@ module nucleate
 
   public :: nucleate_version, nucleate_call_json, nucleate_reply_reals
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
+  public :: nucleate_check_structure, nucleate_match_structures
 
   interface
     function c_version() bind(C, name="nucleate_version") result(text)
@@ -164,13 +168,22 @@ contains
     end if
   end subroutine
 
-  ! A double as JSON: enough digits to read back exactly.
+  ! A double as protobuf JSON: enough digits to read back exactly; non-finite values as the quoted
+  ! names protobuf JSON uses, so the library can name the field that holds them.
   function json_real(value) result(text)
+    use, intrinsic :: ieee_arithmetic, only: ieee_is_nan, ieee_is_finite
     real(c_double), intent(in) :: value
     character(len=:), allocatable :: text
     character(len=40) :: buffer
-    write(buffer, '(ES25.17E3)') value
-    text = trim(adjustl(buffer))
+    if (ieee_is_nan(value)) then
+      text = '"NaN"'
+    else if (.not. ieee_is_finite(value)) then
+      text = merge('"Infinity" ', '"-Infinity"', value > 0)
+      text = trim(text)
+    else
+      write(buffer, '(ES25.17E3)') value
+      text = trim(adjustl(buffer))
+    end if
   end function
 
   function json_int(value) result(text)
@@ -239,6 +252,134 @@ contains
                           json_real(sigma_max) // '}}', 'sigma_levels', columns, table, status, &
                           message)
     sigma = table(:, 1)
+  end subroutine
+
+  ! A structure as a nucleate.v1.Structure JSON object. lattice(:, i) is cell vector i, which is
+  ! the message's row-major rows a, b, c in memory order.
+  function structure_json(lattice, frac, numbers) result(text)
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:)
+    character(len=:), allocatable :: text
+    integer :: i, j
+    text = '{"lattice":['
+    do i = 1, 3
+      do j = 1, 3
+        text = text // json_real(lattice(j, i))
+        if (i < 3 .or. j < 3) text = text // ','
+      end do
+    end do
+    text = text // '],"atomic_numbers":['
+    do j = 1, size(numbers)
+      text = text // json_int(numbers(j))
+      if (j < size(numbers)) text = text // ','
+    end do
+    text = text // '],"frac_coords":['
+    do j = 1, size(frac, 2)
+      do i = 1, 3
+        text = text // json_real(frac(i, j))
+        if (j < size(frac, 2) .or. i < 3) text = text // ','
+      end do
+    end do
+    text = text // ']}'
+  end function
+
+  ! One number at `path` of a reply.
+  subroutine reply_real(method, reply, path, value, status, message)
+    character(len=*), intent(in) :: method, reply, path
+    real(c_double), intent(out) :: value
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    real(c_double), allocatable :: values(:)
+    value = 0
+    call nucleate_reply_reals(method, reply, path, values, status, message)
+    if (status /= NUCLEATE_OK) return
+    if (size(values) /= 1) then
+      status = NUCLEATE_ERROR_INTERNAL
+      message = 'nucleate: expected one value at ' // path
+      return
+    end if
+    value = values(1)
+  end subroutine
+
+  !> Checks one structure with the default thresholds: valid (no problem found), the space-group
+  !> number at 0.1 angstrom (0 when none was found), the shortest interatomic distance in angstrom
+  !> (periodic images included) and the density in g/cm3. A structure that cannot be checked at
+  !> all (e.g. lattice with NaN) gives status NUCLEATE_ERROR_INVALID_ARGUMENT and the message.
+  subroutine nucleate_check_structure(lattice, frac, numbers, valid, space_group, min_distance, &
+                                      density, status, message)
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:)
+    logical, intent(out) :: valid
+    integer, intent(out) :: space_group
+    real(c_double), intent(out) :: min_distance, density
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double) :: value
+    valid = .false.
+    space_group = 0
+    min_distance = 0
+    density = 0
+    call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
+                            structure_json(lattice, frac, numbers) // '}]}', reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    ! A structure that could not be checked carries its own error inside the reply.
+    call reply_real('Check', reply, 'reports.error.code', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    if (nint(value) /= NUCLEATE_OK) then
+      status = nint(value)
+      message = extract_error_message(reply)
+      return
+    end if
+    call reply_real('Check', reply, 'reports.valid', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    valid = value /= 0
+    call reply_real('Check', reply, 'reports.space_group_number', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    space_group = nint(value)
+    call reply_real('Check', reply, 'reports.min_distance', min_distance, status, message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('Check', reply, 'reports.density', density, status, message)
+  end subroutine
+
+  ! The "message" of the first error in a Check reply, for the Fortran caller's message.
+  function extract_error_message(reply) result(text)
+    character(len=*), intent(in) :: reply
+    character(len=:), allocatable :: text
+    integer :: start, finish
+    start = index(reply, '"message":"')
+    if (start == 0) then
+      text = 'nucleate: the structure could not be checked'
+      return
+    end if
+    start = start + len('"message":"')
+    finish = start + index(reply(start:), '"') - 2
+    text = reply(start:finish)
+  end function
+
+  !> Whether two structures are the same crystal (default tolerances), and the rms displacement of
+  !> the best mapping in units of (V/N)^(1/3).
+  subroutine nucleate_match_structures(lattice_a, frac_a, numbers_a, lattice_b, frac_b, numbers_b, &
+                                       match, rms, status, message)
+    real(c_double), intent(in) :: lattice_a(3, 3), frac_a(:, :), lattice_b(3, 3), frac_b(:, :)
+    integer, intent(in) :: numbers_a(:), numbers_b(:)
+    logical, intent(out) :: match
+    real(c_double), intent(out) :: rms
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double) :: value
+    match = .false.
+    rms = 0
+    call nucleate_call_json('Match', '{"a":{"structure":' // &
+                            structure_json(lattice_a, frac_a, numbers_a) // '},"b":{"structure":' &
+                            // structure_json(lattice_b, frac_b, numbers_b) // '}}', reply, &
+                            status, message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('Match', reply, 'match', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    match = value /= 0
+    call reply_real('Match', reply, 'rms', rms, status, message)
   end subroutine
 
   pure function upper(text) result(out)

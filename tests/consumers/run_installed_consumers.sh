@@ -59,6 +59,7 @@ run_find_package_consumer() {
   if [[ $fortran == ON ]]; then
     check_loads_from "$out/fortran_schedule_test" "$prefix"
     "$out/fortran_schedule_test"
+    "$out/fortran_structure_test"
     find "$cases" -mindepth 1 -maxdepth 1 -type d -printf '%f\n' | sort >"$out/cases.txt"
     "$out/run_conformance_fortran" "$cases" "$out/cases.txt"
   fi
@@ -76,6 +77,7 @@ run_pkg_config_consumer() {
   if [[ $fortran == ON ]]; then
     check_loads_from "$out/fortran_schedule_test" "$prefix"
     "$out/fortran_schedule_test"
+    "$out/fortran_structure_test"
   fi
 }
 

@@ -133,35 +133,36 @@ void ToMessage(const structure::Crystal& crystal, v1::Structure* m) {
   m->mutable_properties()->insert(crystal.properties.begin(), crystal.properties.end());
 }
 
+std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const InputLimits& limits,
+                                      const std::string& where) {
+  switch (input.source_case()) {
+    case v1::StructureInput::kStructure:
+      try {
+        return {{input.structure().label().empty() ? where : input.structure().label(),
+                 FromMessage(input.structure(), limits.structure), std::nullopt, {}}};
+      } catch (const Error& error) {
+        return {{where, std::nullopt, error.WithinField(where + ".structure"), {}}};
+      }
+    case v1::StructureInput::kFile:
+      return ReadFile(input.file(), limits);
+    case v1::StructureInput::SOURCE_NOT_SET:
+      break;
+  }
+  return {{where, std::nullopt, InvalidArgument(where, "set either structure or file"), {}}};
+}
+
 std::vector<InputStructure> ReadInputs(
     const google::protobuf::RepeatedPtrField<v1::StructureInput>& inputs,
-    const InputLimits& limits) {
+    const InputLimits& limits, const std::string& field) {
   std::vector<InputStructure> out;
   for (int i = 0; i < inputs.size(); ++i) {
-    const std::string where = "inputs[" + std::to_string(i) + "]";
-    const v1::StructureInput& input = inputs.Get(i);
-    switch (input.source_case()) {
-      case v1::StructureInput::kStructure:
-        try {
-          out.push_back({input.structure().label().empty() ? where : input.structure().label(),
-                         FromMessage(input.structure(), limits.structure), std::nullopt, {}});
-        } catch (const Error& error) {
-          out.push_back({where, std::nullopt, error.WithinField(where + ".structure"), {}});
-        }
-        break;
-      case v1::StructureInput::kFile:
-        for (InputStructure& entry : ReadFile(input.file(), limits)) {
-          out.push_back(std::move(entry));
-        }
-        break;
-      case v1::StructureInput::SOURCE_NOT_SET:
-        out.push_back({where, std::nullopt,
-                       InvalidArgument(where, "set either structure or file"), {}});
-        break;
+    for (InputStructure& entry :
+         ReadInput(inputs.Get(i), limits, field + "[" + std::to_string(i) + "]")) {
+      out.push_back(std::move(entry));
     }
     if (static_cast<std::int64_t>(out.size()) > limits.max_structures) {
-      throw LimitExceeded("inputs", "more than limits.max_structures = " +
-                                        std::to_string(limits.max_structures) + " structures");
+      throw LimitExceeded(field, "more than limits.max_structures = " +
+                                     std::to_string(limits.max_structures) + " structures");
     }
   }
   return out;

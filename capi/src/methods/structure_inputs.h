@@ -40,11 +40,16 @@ struct InputStructure {
   std::vector<std::string> warnings;
 };
 
-// Reads every input. A bad structure or file becomes an entry with its error; the others are
-// read. LimitExceeded (a refusal of the whole request) only when there are more structures than
+// The structures of one input (a file may hold several); `where` names it in sources and errors
+// ("a", "inputs[3]"). A bad structure or file becomes an entry with its error.
+std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const InputLimits& limits,
+                                      const std::string& where);
+
+// Every input of a repeated field named `field` ("inputs", "references"), in order.
+// LimitExceeded (a refusal of the whole request) only when there are more structures than
 // limits.max_structures.
 std::vector<InputStructure> ReadInputs(
     const google::protobuf::RepeatedPtrField<v1::StructureInput>& inputs,
-    const InputLimits& limits);
+    const InputLimits& limits, const std::string& field = "inputs");
 
 }  // namespace nucleate::capi

@@ -1,5 +1,7 @@
 #include "core/structure/io/cif_writer.h"
 
+#include "core/structure/composition.h"
+
 #include <algorithm>
 #include <cctype>
 #include <cmath>
@@ -115,30 +117,6 @@ void SiteLoopHeader(std::string& out, bool wyckoff) {
 
 }  // namespace
 
-std::string HillFormula(const std::vector<long long>& counts) {
-  std::vector<std::pair<std::string, long long>> parts;
-  for (std::size_t z = 1; z < counts.size(); ++z) {
-    if (counts[z] <= 0) continue;
-    const elements::Element* e = elements::FindElement(static_cast<int>(z));
-    if (e) parts.emplace_back(e->symbol, counts[z]);
-  }
-  const bool carbon = counts.size() > 6 && counts[6] > 0;
-  const auto rank = [carbon](const std::string& s) {
-    if (carbon && s == "C") return 0;
-    if (carbon && s == "H") return 1;
-    return 2;
-  };
-  std::sort(parts.begin(), parts.end(), [&](const auto& x, const auto& y) {
-    return rank(x.first) != rank(y.first) ? rank(x.first) < rank(y.first) : x.first < y.first;
-  });
-  std::string out;
-  for (const auto& [symbol, n] : parts) {
-    if (!out.empty()) out += ' ';
-    out += symbol;
-    if (n != 1) out += std::to_string(n);
-  }
-  return out;
-}
 
 std::string WriteCifP1(const Crystal& crystal) {
   // CIF holds only lengths and angles, which always describe a right-handed cell. A left-handed
@@ -151,7 +129,7 @@ std::string WriteCifP1(const Crystal& crystal) {
     throw InvalidArgument("frac", "has " + std::to_string(crystal.frac.size()) + " entries for " +
                                       std::to_string(crystal.numbers.size()) + " atomic numbers");
   }
-  std::vector<long long> counts(elements::kMaxAtomicNumber + 1, 0);
+  std::map<int, long long> counts;
   std::string rows;
   std::map<int, int> running;
   for (std::size_t i = 0; i < crystal.size(); ++i) {
@@ -169,7 +147,7 @@ std::string WriteCifP1(const Crystal& crystal) {
   Header(out, crystal.label, 1, "P 1");
   CellSection(out, lattice);
   out += "_cell_formula_units_Z  1\n";
-  out += "_chemical_formula_sum  " + CifValueText(HillFormula(counts)) + "\n";
+  out += "_chemical_formula_sum  " + CifValueText(HillFormula(counts, " ")) + "\n";
   OperationsLoop(out, {SymmetryOperation{}});
   SiteLoopHeader(out, false);
   out += rows;
@@ -196,7 +174,7 @@ std::string WriteCifSymmetrized(const SymmetrizedCrystal& crystal) {
   }
   if (!identity) throw InvalidArgument("operations", "must include the identity x, y, z");
   if (crystal.sites.empty()) throw InvalidArgument("sites", "is empty");
-  std::vector<long long> counts(elements::kMaxAtomicNumber + 1, 0);
+  std::map<int, long long> counts;
   std::set<std::string> labels;
   std::string rows;
   for (std::size_t i = 0; i < crystal.sites.size(); ++i) {
@@ -230,7 +208,7 @@ std::string WriteCifSymmetrized(const SymmetrizedCrystal& crystal) {
   Header(out, crystal.label, crystal.space_group_number, crystal.hm_symbol);
   CellSection(out, crystal.lattice);
   out += "_cell_formula_units_Z  1\n";
-  out += "_chemical_formula_sum  " + CifValueText(HillFormula(counts)) + "\n";
+  out += "_chemical_formula_sum  " + CifValueText(HillFormula(counts, " ")) + "\n";
   OperationsLoop(out, crystal.operations);
   SiteLoopHeader(out, true);
   out += rows;

@@ -41,9 +41,5 @@ std::string WriteCifP1(const Crystal& crystal);
 // field ("space_group_number", "operations[2]", "sites[1].label", ...) for inconsistent input.
 std::string WriteCifSymmetrized(const SymmetrizedCrystal& crystal);
 
-// _chemical_formula_sum text in the Hill order the CIF core dictionary prescribes for formulae
-// (C, then H, then the rest alphabetically; alphabetical throughout without carbon); a count of
-// 1 is omitted: "C2 H6 O", "Cl4 Na4". `counts[z]` is the number of atoms of element z.
-std::string HillFormula(const std::vector<long long>& counts);
 
 }  // namespace nucleate::structure::io

@@ -7,17 +7,10 @@
 
 #include <Eigen/Dense>
 
+#include "core/structure/symmetry_operation.h"
+
 namespace nucleate::structure::io {
 
-// x' = rotation * x + translation, x fractional. Row i of `rotation` gives output coordinate i.
-struct SymmetryOperation {
-  Eigen::Matrix3i rotation = Eigen::Matrix3i::Identity();
-  Eigen::Vector3d translation = Eigen::Vector3d::Zero();
-
-  Eigen::Vector3d Apply(const Eigen::Vector3d& frac) const {
-    return rotation.cast<double>() * frac + translation;
-  }
-};
 
 // Parses the x,y,z form used by _symmetry_equiv_pos_as_xyz and _space_group_symop_operation_xyz
 // (CIF core dictionary): three comma-separated expressions, each a signed sum of x, y, z

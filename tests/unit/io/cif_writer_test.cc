@@ -186,19 +186,6 @@ TEST(CifWriter, P1InputIsChecked) {
   EXPECT_THROW(WriteCifP1(c), Error);
 }
 
-TEST(HillFormula, CarbonFirstThenHydrogenElseAlphabetical) {
-  // CIF core dictionary, _chemical_formula_sum: Hill order, counts of 1 omitted.
-  std::vector<long long> counts(119, 0);
-  counts[6] = 2;
-  counts[1] = 6;
-  counts[8] = 1;
-  EXPECT_EQ(HillFormula(counts), "C2 H6 O");
-  counts.assign(119, 0);
-  counts[11] = 4;
-  counts[17] = 4;
-  counts[1] = 2;
-  EXPECT_EQ(HillFormula(counts), "Cl4 H2 Na4");
-}
 
 }  // namespace
 }  // namespace nucleate::structure::io

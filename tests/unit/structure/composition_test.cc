@@ -20,6 +20,12 @@ TEST(HillFormula, WithCarbonPutsCarbonThenHydrogenFirst) {
   EXPECT_EQ(HillFormula({1, 8, 1}), "H2O");  // no carbon: H sorts alphabetically
 }
 
+TEST(HillFormula, FromCountsWithTheSeparatorCifUses) {
+  // CIF core dictionary, _chemical_formula_sum: Hill order, counts of 1 omitted, spaces between.
+  EXPECT_EQ(HillFormula(std::map<int, long long>{{6, 2}, {1, 6}, {8, 1}}, " "), "C2 H6 O");
+  EXPECT_EQ(HillFormula(std::map<int, long long>{{11, 4}, {17, 4}, {1, 2}}, " "), "Cl4 H2 Na4");
+}
+
 TEST(ReducedFormula, DividesByTheGreatestCommonDivisor) {
   EXPECT_EQ(ReducedHillFormula({22, 22, 8, 8, 8, 8}), "O2Ti");
   EXPECT_EQ(ReducedHillFormula({26, 26, 26, 8, 8, 8, 8}), "Fe3O4");
