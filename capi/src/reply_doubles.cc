@@ -1,4 +1,5 @@
 // nucleate_reply_doubles: numbers out of a reply by field path, for callers with no protobuf.
+#include <cstdlib>
 #include <string>
 #include <vector>
 
@@ -47,15 +48,36 @@ double ScalarAsDouble(const pb::Message& message, const pb::FieldDescriptor* fie
   throw Internal("not a numeric field");
 }
 
+// A path part: a field name, and for a repeated field optionally one element ("structures[2]").
+struct PathPart {
+  std::string name;
+  int index = -1;  // -1: every element
+};
+
+PathPart ParsePart(const std::string& text, const std::string& path) {
+  const std::size_t open = text.find('[');
+  if (open == std::string::npos) return {text, -1};
+  char* end = nullptr;
+  const long index = std::strtol(text.c_str() + open + 1, &end, 10);
+  if (open == 0 || end == text.c_str() + open + 1 || *end != ']' || end[1] != '\0' || index < 0) {
+    throw InvalidArgument("path", "'" + path + "': '" + text + "' is not name or name[index]");
+  }
+  return {text.substr(0, open), static_cast<int>(index)};
+}
+
 // Appends the values at parts[depth..] below `message`.
 void Collect(const pb::Message& message, const std::vector<std::string>& parts, size_t depth,
              const std::string& path_so_far, std::vector<double>* out) {
   const pb::Descriptor* type = message.GetDescriptor();
-  const pb::FieldDescriptor* field = type->FindFieldByName(parts[depth]);
   const std::string here = path_so_far.empty() ? parts[depth] : path_so_far + "." + parts[depth];
+  const PathPart part = ParsePart(parts[depth], here);
+  const pb::FieldDescriptor* field = type->FindFieldByName(part.name);
   if (field == nullptr) {
     throw InvalidArgument("path", "'" + here + "': " + type->full_name() + " has no field '" +
-                                      parts[depth] + "'");
+                                      part.name + "'");
+  }
+  if (part.index >= 0 && !field->is_repeated()) {
+    throw InvalidArgument("path", "'" + here + "': '" + part.name + "' is not repeated");
   }
   const pb::Reflection* r = message.GetReflection();
   const bool last = depth + 1 == parts.size();
@@ -64,18 +86,22 @@ void Collect(const pb::Message& message, const std::vector<std::string>& parts, 
     throw InvalidArgument("path", "'" + here + "' " +
                                       (last ? "is not a numeric field" : "has no fields below it"));
   }
-  if (last) {
-    if (field->is_repeated()) {
-      for (int i = 0; i < r->FieldSize(message, field); ++i) {
-        out->push_back(ScalarAsDouble(message, field, i));
-      }
-    } else {
-      out->push_back(ScalarAsDouble(message, field, 0));
+  // The elements to visit: all of a repeated field, or the one indexed (none if out of range).
+  int first = 0, end = field->is_repeated() ? r->FieldSize(message, field) : 1;
+  if (part.index >= 0) {
+    if (part.index >= end) {
+      throw InvalidArgument("path", "'" + here + "': index " + std::to_string(part.index) +
+                                        " is past the " + std::to_string(end) + " elements");
     }
+    first = part.index;
+    end = part.index + 1;
+  }
+  if (last) {
+    for (int i = first; i < end; ++i) out->push_back(ScalarAsDouble(message, field, i));
     return;
   }
   if (field->is_repeated()) {
-    for (int i = 0; i < r->FieldSize(message, field); ++i) {
+    for (int i = first; i < end; ++i) {
       Collect(r->GetRepeatedMessage(message, field, i), parts, depth + 1, here, out);
     }
   } else {

@@ -35,7 +35,8 @@ module nucleate
 
   public :: nucleate_version, nucleate_call_json, nucleate_reply_reals
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
-  public :: nucleate_check_structure, nucleate_match_structures
+  public :: nucleate_check_structure, nucleate_match_structures, nucleate_dedup_structures
+  public :: nucleate_read_structures
 
   interface
     function c_version() bind(C, name="nucleate_version") result(text)
@@ -381,6 +382,153 @@ contains
     match = value /= 0
     call reply_real('Match', reply, 'rms', rms, status, message)
   end subroutine
+
+  !> Groups equivalent structures (default tolerances). Structure k has counts(k) atoms: its
+  !> lattice is lattices(:, :, k) and its atoms are the next counts(k) columns of frac and entries
+  !> of numbers. On return group(k) is the 1-based group of structure k and representative(k) is
+  !> true for the first structure of each group.
+  subroutine nucleate_dedup_structures(lattices, frac, numbers, counts, group, representative, &
+                                       status, message)
+    real(c_double), intent(in) :: lattices(:, :, :), frac(:, :)
+    integer, intent(in) :: numbers(:), counts(:)
+    integer, allocatable, intent(out) :: group(:)
+    logical, allocatable, intent(out) :: representative(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: request, reply
+    real(c_double), allocatable :: values(:)
+    integer :: k, first
+    allocate(group(size(counts)), representative(size(counts)))
+    group = 0
+    representative = .false.
+    if (size(lattices, 3) /= size(counts) .or. sum(counts) /= size(numbers) .or. &
+        sum(counts) /= size(frac, 2)) then
+      status = NUCLEATE_ERROR_INVALID_ARGUMENT
+      message = 'nucleate_dedup_structures: lattices, counts, numbers and frac disagree in size'
+      return
+    end if
+    request = '{"inputs":['
+    first = 1
+    do k = 1, size(counts)
+      if (k > 1) request = request // ','
+      request = request // '{"structure":' // structure_json(lattices(:, :, k), &
+                frac(:, first:first + counts(k) - 1), numbers(first:first + counts(k) - 1)) // '}'
+      first = first + counts(k)
+    end do
+    call nucleate_call_json('Dedup', request // ']}', reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Dedup', reply, 'entries.group', values, status, message)
+    if (status /= NUCLEATE_OK) return
+    group = nint(values) + 1
+    call nucleate_reply_reals('Dedup', reply, 'entries.representative', values, status, message)
+    if (status /= NUCLEATE_OK) return
+    representative = values /= 0
+    if (any(group < 1)) then
+      status = NUCLEATE_ERROR_INVALID_ARGUMENT
+      message = extract_error_message(reply)
+    end if
+  end subroutine
+
+  !> Reads every structure of a CIF (.cif) or extended XYZ (.xyz, .extxyz) file. Structure k has
+  !> counts(k) atoms, lattice lattices(:, :, k), and the next counts(k) columns of frac and
+  !> entries of numbers. A structure that cannot be read stops the call with its message.
+  subroutine nucleate_read_structures(path, lattices, frac, numbers, counts, status, message)
+    character(len=*), intent(in) :: path
+    real(c_double), allocatable, intent(out) :: lattices(:, :, :), frac(:, :)
+    integer, allocatable, intent(out) :: numbers(:), counts(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: content, reply
+    real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
+    real(c_double), allocatable :: error_codes(:)
+    integer :: unit, size_bytes, io, k, m
+    allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0))
+    open(newunit=unit, file=path, access='stream', form='unformatted', status='old', &
+         action='read', iostat=io)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = path // ': cannot open the file'
+      return
+    end if
+    inquire(unit=unit, size=size_bytes)
+    allocate(character(len=max(size_bytes, 0)) :: content)
+    if (size_bytes > 0) read(unit, iostat=io) content
+    close(unit)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = path // ': cannot read the file'
+      return
+    end if
+    call nucleate_call_json('Convert', '{"inputs":[{"file":{"name":"' // json_escape(path) // &
+                            '","content":"' // base64(content) // &
+                            '"}}],"format":"STRUCTURE_FORMAT_JSON"}', reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Convert', reply, 'unreadable.error.code', error_codes, status, &
+                              message)
+    if (status /= NUCLEATE_OK) return
+    if (size(error_codes) > 0) then
+      status = nint(error_codes(1))
+      message = extract_error_message(reply)
+      return
+    end if
+    call nucleate_reply_reals('Convert', reply, 'structures.lattice', lattice_values, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Convert', reply, 'structures.frac_coords', frac_values, status, &
+                              message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Convert', reply, 'structures.atomic_numbers', number_values, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    m = size(lattice_values) / 9
+    deallocate(lattices, frac, numbers, counts)
+    lattices = reshape(lattice_values, [3, 3, m])
+    frac = reshape(frac_values, [3, size(frac_values) / 3])
+    numbers = nint(number_values)
+    ! Atoms per structure: the length of each structure's atomic_numbers.
+    allocate(counts(m))
+    do k = 1, m
+      call nucleate_reply_reals('Convert', reply, 'structures[' // json_int(k - 1) // &
+                                '].atomic_numbers', number_values, status, message)
+      if (status /= NUCLEATE_OK) return
+      counts(k) = size(number_values)
+    end do
+  end subroutine
+
+  ! Standard base64 with padding (RFC 4648), as protobuf JSON writes bytes fields.
+  function base64(bytes) result(text)
+    character(len=*), intent(in) :: bytes
+    character(len=:), allocatable :: text
+    character(len=64), parameter :: alphabet = &
+      'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/'
+    integer :: i, j, n, k, chunk, b(3)
+    allocate(character(len=4 * ((len(bytes) + 2) / 3)) :: text)
+    k = 0
+    do i = 1, len(bytes), 3
+      n = min(3, len(bytes) - i + 1)
+      b = 0
+      do j = 1, n
+        b(j) = iachar(bytes(i + j - 1:i + j - 1))
+      end do
+      chunk = b(1) * 65536 + b(2) * 256 + b(3)
+      text(k + 1:k + 1) = alphabet(ibits(chunk, 18, 6) + 1:ibits(chunk, 18, 6) + 1)
+      text(k + 2:k + 2) = alphabet(ibits(chunk, 12, 6) + 1:ibits(chunk, 12, 6) + 1)
+      text(k + 3:k + 3) = merge(alphabet(ibits(chunk, 6, 6) + 1:ibits(chunk, 6, 6) + 1), '=', n >= 2)
+      text(k + 4:k + 4) = merge(alphabet(ibits(chunk, 0, 6) + 1:ibits(chunk, 0, 6) + 1), '=', n >= 3)
+      k = k + 4
+    end do
+  end function
+
+  ! A string's characters escaped for a JSON string literal (quotes and backslashes).
+  function json_escape(raw) result(text)
+    character(len=*), intent(in) :: raw
+    character(len=:), allocatable :: text
+    integer :: i
+    text = ''
+    do i = 1, len(raw)
+      if (raw(i:i) == '"' .or. raw(i:i) == '\') text = text // '\'
+      text = text // raw(i:i)
+    end do
+  end function
 
   pure function upper(text) result(out)
     character(len=*), intent(in) :: text

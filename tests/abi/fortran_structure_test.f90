@@ -7,8 +7,11 @@ program fortran_structure_test
   implicit none
   real(c_double), parameter :: a = 5.64d0
   real(c_double) :: lattice(3, 3), frac(3, 8), shifted(3, 8), rotated(3, 3), min_distance, density
-  real(c_double) :: rms
-  integer :: numbers(8), space_group, status, failures
+  real(c_double) :: rms, lattices(3, 3, 3), all_frac(3, 18)
+  real(c_double), allocatable :: read_lattices(:, :, :), read_frac(:, :)
+  integer, allocatable :: read_numbers(:), read_counts(:), group(:)
+  logical, allocatable :: representative(:)
+  integer :: numbers(8), all_numbers(18), space_group, status, failures, unit
   logical :: valid, match
   character(len=:), allocatable :: message
 
@@ -38,6 +41,49 @@ program fortran_structure_test
   call expect(status == NUCLEATE_OK, 'match status: ' // message)
   call expect(match, 'shifted copy matches')
   call expect(rms < 1d-6, 'rms of an exact copy is ~0')
+
+  ! Dedup: rock salt, its shifted copy, and CsCl (a = 4.12 A, from memory): two groups.
+  lattices(:, :, 1) = lattice
+  lattices(:, :, 2) = rotated
+  lattices(:, :, 3) = 0
+  lattices(1, 1, 3) = 4.12d0
+  lattices(2, 2, 3) = 4.12d0
+  lattices(3, 3, 3) = 4.12d0
+  all_frac(:, 1:8) = frac
+  all_frac(:, 9:16) = shifted
+  all_frac(:, 17) = 0
+  all_frac(:, 18) = 0.5d0
+  all_numbers = [numbers, numbers, 55, 17]
+  call nucleate_dedup_structures(lattices, all_frac, all_numbers, [8, 8, 2], group, &
+                                 representative, status, message)
+  call expect(status == NUCLEATE_OK, 'dedup status: ' // message)
+  call expect(all(group == [1, 1, 2]), 'rock salt and its copy share a group, CsCl has its own')
+  call expect(all(representative .eqv. [.true., .false., .true.]), 'representatives')
+
+  ! A CIF with two data blocks read into arrays.
+  open(newunit=unit, file='fortran_structure_test.cif', status='replace', action='write')
+  write(unit, '(a)') 'data_CsCl', '_cell_length_a 4.12', '_cell_length_b 4.12', &
+    '_cell_length_c 4.12', '_cell_angle_alpha 90', '_cell_angle_beta 90', '_cell_angle_gamma 90', &
+    'loop_', '_symmetry_equiv_pos_as_xyz', 'x,y,z', 'loop_', '_atom_site_label', &
+    '_atom_site_fract_x', '_atom_site_fract_y', '_atom_site_fract_z', 'Cs1 0 0 0', &
+    'Cl1 0.5 0.5 0.5', 'data_Po', '_cell_length_a 3.35', '_cell_length_b 3.35', &
+    '_cell_length_c 3.35', '_cell_angle_alpha 90', '_cell_angle_beta 90', '_cell_angle_gamma 90', &
+    'loop_', '_symmetry_equiv_pos_as_xyz', 'x,y,z', 'loop_', '_atom_site_label', &
+    '_atom_site_fract_x', '_atom_site_fract_y', '_atom_site_fract_z', 'Po1 0 0 0'
+  close(unit)
+  call nucleate_read_structures('fortran_structure_test.cif', read_lattices, read_frac, &
+                                read_numbers, read_counts, status, message)
+  call expect(status == NUCLEATE_OK, 'read status: ' // message)
+  call expect(size(read_counts) == 2, 'two structures read')
+  if (size(read_counts) == 2) then
+    call expect(all(read_counts == [2, 1]), 'with 2 and 1 atoms')
+    call expect(all(read_numbers == [55, 17, 84]), 'Cs, Cl and Po')
+    call expect(abs(read_lattices(1, 1, 1) - 4.12d0) < 1d-9, 'CsCl cell edge')
+    call expect(abs(read_frac(2, 2) - 0.5d0) < 1d-12, 'Cl at the body centre')
+  end if
+  call nucleate_read_structures('no_such_file.cif', read_lattices, read_frac, read_numbers, &
+                                read_counts, status, message)
+  call expect(status == NUCLEATE_ERROR_IO, 'a missing file is an I/O error: ' // message)
 
   ! Two atoms on top of each other: checked, found invalid.
   frac(:, 2) = frac(:, 1) + [0.01d0, 0d0, 0d0]

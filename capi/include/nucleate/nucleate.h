@@ -140,7 +140,8 @@ NUCLEATE_API void nucleate_free(void* pointer);
 /* Collects every value at `path` in a reply of `method` into a new array of doubles, so callers
  * without a protobuf library (Fortran, plain C) can use replies directly.
  *   path     in   Proto field names joined by dots, e.g. "variance_steps.alpha_bar". Repeated
- *                 message fields on the way are walked in order; the last field must be numeric
+ *                 fields are walked in order, or one element is picked with a 0-based index,
+ *                 e.g. "structures[2].atomic_numbers"; the last field must be numeric
  *                 (any integer, floating-point, bool or enum field; int64 values above 2^53 lose
  *                 precision).
  *   values   out  On NUCLEATE_OK, *count doubles (NULL when *count is 0). Free with nucleate_free.

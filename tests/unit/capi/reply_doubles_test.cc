@@ -44,6 +44,22 @@ TEST(ReplyDoubles, ReadsAColumnOfRepeatedRows) {
   EXPECT_EQ(steps.values[0], 1000.0);
 }
 
+TEST(ReplyDoubles, AnIndexPicksOneElementOfARepeatedField) {
+  const CallResult table = Call("Schedule", R"({"variance":{"steps":5}})");
+  ASSERT_EQ(table.status, NUCLEATE_OK) << table.message;
+  const Values all = Read("Schedule", table.reply, "variance_steps.beta");
+  const Values third = Read("Schedule", table.reply, "variance_steps[2].beta");
+  ASSERT_EQ(third.status, NUCLEATE_OK) << third.message;
+  ASSERT_EQ(third.values.size(), 1u);
+  EXPECT_EQ(third.values[0], all.values[2]);
+  EXPECT_EQ(Read("Schedule", table.reply, "variance_steps[5].beta").status,
+            NUCLEATE_ERROR_INVALID_ARGUMENT);  // past the end
+  EXPECT_EQ(Read("Schedule", table.reply, "variance_steps[x].beta").status,
+            NUCLEATE_ERROR_INVALID_ARGUMENT);
+  EXPECT_EQ(Read("Schedule", table.reply, "resolved[0].limits.max_steps").status,
+            NUCLEATE_ERROR_INVALID_ARGUMENT);  // not repeated
+}
+
 TEST(ReplyDoubles, NamesThePathPartThatDoesNotExist) {
   const CallResult table = Call("Schedule", R"({"variance":{"steps":3}})");
   const Values missing = Read("Schedule", table.reply, "variance_steps.alpha_bra");
