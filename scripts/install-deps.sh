@@ -12,7 +12,7 @@ packages=(
   # tests
   libgtest-dev libbenchmark-dev
   # outside references used by the tests only (the product itself stays Python-free)
-  python3 python3-numpy
+  python3 python3-numpy python3-spglib python3-ase python3-pymatgen
 )
 
 missing=()
