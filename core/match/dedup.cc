@@ -19,8 +19,6 @@ namespace {
 // resolution inside a chunk (matching against representatives founded in the same chunk) stays a
 // small share of the work.
 constexpr std::size_t kChunk = 512;
-// Leading fingerprint values used as grid dimensions: 3^4 = 81 neighbour cells per query.
-constexpr std::size_t kGridDims = 4;
 
 int ThreadCount(int threads) {
   if (threads < 0) throw InvalidArgument("threads", "must be >= 0 (0: all hardware threads)");
@@ -50,10 +48,6 @@ Prepared PrepareAll(const std::vector<structure::Crystal>& structures,
   return p;
 }
 
-std::size_t GridDims(DedupScreen screen) {
-  return screen == DedupScreen::kFingerprint ? kGridDims : 0;
-}
-
 }  // namespace
 
 DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
@@ -64,7 +58,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
 
   DedupResult result;
   result.group_of.assign(n, -1);
-  CandidateIndex representatives(GridDims(screen));
+  CandidateIndex representatives(screen, tolerances);
   std::atomic<std::int64_t> pairs{0};
   std::vector<int> found(kChunk);
 
@@ -76,7 +70,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
       const int i = start + static_cast<int>(k);
       found[k] = -1;
       std::vector<int> candidates;
-      representatives.Query(p.fingerprints[i], &candidates);
+      representatives.Query(p.fingerprints[i], p.crystals[i], &candidates);
       for (int j : candidates) {
         ++pairs;
         if (MatchPrepared(p.crystals[i], p.crystals[j], tolerances, true).match) {
@@ -86,12 +80,16 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
       }
     });
     // Phase 2, in order: members without an earlier match try this chunk's new representatives
-    // (all of higher index than any earlier one, so the lowest-index rule still holds).
+    // (all of higher index than any earlier one, so the lowest-index rule still holds). They are
+    // held in an index of their own until the chunk ends, so these sequential queries search a
+    // few hundred representatives, not all of them.
+    CandidateIndex fresh(screen, tolerances);
+    std::vector<int> founded;
     std::vector<int> candidates;
     for (int i = start; i < end; ++i) {
       int rep = found[i - start];
       if (rep < 0) {
-        representatives.Query(p.fingerprints[i], &candidates, start);
+        fresh.Query(p.fingerprints[i], p.crystals[i], &candidates);
         for (int j : candidates) {
           ++pairs;
           if (MatchPrepared(p.crystals[i], p.crystals[j], tolerances, true).match) {
@@ -103,12 +101,14 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
       if (rep < 0) {
         result.group_of[i] = static_cast<int>(result.groups.size());
         result.groups.push_back({i});
-        representatives.Insert(i, &p.fingerprints[i]);
+        fresh.Insert(i, &p.fingerprints[i], p.crystals[i]);
+        founded.push_back(i);
       } else {
         result.group_of[i] = result.group_of[rep];
         result.groups[result.group_of[rep]].push_back(i);
       }
     }
+    for (int i : founded) representatives.Insert(i, &p.fingerprints[i], p.crystals[i]);
   }
   result.pairs_matched = pairs.load();
   return result;
@@ -120,9 +120,9 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
   const int workers = ThreadCount(threads);
   const Prepared c = PrepareAll(candidates, tolerances, workers, "candidates");
   const Prepared r = PrepareAll(references, tolerances, workers, "references");
-  CandidateIndex index(GridDims(screen));
+  CandidateIndex index(screen, tolerances);
   for (std::size_t j = 0; j < references.size(); ++j) {
-    index.Insert(static_cast<int>(j), &r.fingerprints[j]);
+    index.Insert(static_cast<int>(j), &r.fingerprints[j], r.crystals[j]);
   }
   NoveltyResult result;
   result.novel.assign(candidates.size(), 1);
@@ -130,7 +130,7 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
   std::atomic<std::int64_t> pairs{0};
   ParallelFor(candidates.size(), workers, [&](std::size_t i) {
     std::vector<int> found;
-    index.Query(c.fingerprints[i], &found);
+    index.Query(c.fingerprints[i], c.crystals[i], &found);
     for (int j : found) {
       ++pairs;
       if (MatchPrepared(c.crystals[i], r.crystals[j], tolerances, true).match) {

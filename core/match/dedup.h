@@ -1,22 +1,21 @@
 // Grouping of equivalent structures (Deduplicate) and look-up of candidates among known
-// structures (Novelty), near-linear in the number of structures: each structure is prepared and
-// fingerprinted once (fingerprint.h), and only pairs in the same or adjacent fingerprint cells
-// that pass the fingerprint screen are matched pairwise (structure_matcher.h).
+// structures (Novelty): each structure is prepared and fingerprinted once (fingerprint.h), and
+// only pairs of one fingerprint key whose lattices admit a lattice mapping (the exact screen of
+// candidate_index.h / lattice_index.h) are matched pairwise (structure_matcher.h), each structure
+// against group representatives only. The cost is linear in the number of structures times the
+// number of lattice-compatible representatives each has: near-linear for varied sets, quadratic
+// when thousands of distinct structures crowd within the lattice tolerances of each other (many
+// strained variants of a few prototypes), where only the matcher can tell them apart.
 #pragma once
 
 #include <cstdint>
 #include <vector>
 
+#include "core/match/candidate_index.h"
 #include "core/match/tolerances.h"
 #include "core/structure/crystal.h"
 
 namespace nucleate::match {
-
-enum class DedupScreen {
-  kFingerprint,  // key + grid + value screen (fingerprint.h): the default, near-linear
-  kFormulaOnly,  // only the exact key (reduced formula, site count): every pair of one formula is
-                 // matched; quadratic, for small sets where no screened-out pair is acceptable
-};
 
 struct DedupResult {
   // Groups in order of their representative; each lists input indices ascending, the first being

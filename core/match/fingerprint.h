@@ -1,5 +1,7 @@
 // A cheap summary of a prepared crystal that does not depend on rotation, origin, atom order or
-// cell choice, used to bucket structures before any pairwise matching (dedup.h).
+// cell choice, used to bucket structures before any pairwise matching (dedup.h). Dedup always
+// uses the exact key; the continuous values only screen when supercells may match (elsewhere the
+// exact lattice screen of lattice_index.h replaces them, see candidate_index.h).
 //
 // Two parts:
 //  * key (exact): the reduced formula, plus the primitive site count unless supercells may
@@ -23,9 +25,9 @@
 //    Displacements under stol (after removing the mean shift) change any site's nearest-neighbour
 //    distance by less than 2 stol, so the mean moves by less than 2 stol; strain within the
 //    length tolerance adds about ltol / 2 of a typical (unit) distance. Width 2 stol + ltol / 2.
-//    The strain part is an allowance, not a proof (a strongly sheared cell could exceed it):
-//    tests/reference/match checks that every pair the reference matches passes this screen, and
-//    DedupScreen::kFormulaOnly skips it for an exhaustive comparison.
+//    The strain part is an allowance, not a proof (a strongly sheared cell could exceed it), which
+//    is why the default (no supercell) path no longer uses these values; DedupScreen::kFormulaOnly
+//    skips them for an exhaustive comparison.
 #pragma once
 
 #include <string>

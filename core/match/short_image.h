@@ -40,6 +40,19 @@ class ShortImage {
     return best;
   }
 
+  // Whether some image of frac_delta (the same 27 as Vector tries) is shorter than sqrt(limit2):
+  // the same verdict as Vector(frac_delta).squaredNorm() < limit2, stopping at the first such
+  // image. The wrapped vector itself (one of the 27) is the usual winner, so it goes first.
+  bool Within(const Eigen::Vector3d& frac_delta, double limit2) const {
+    const Eigen::Vector3d wrapped = frac_delta - frac_delta.array().round().matrix();
+    const Eigen::Vector3d base = lattice_.transpose() * wrapped;
+    if (base.squaredNorm() < limit2) return true;
+    for (const auto& o : offsets_) {
+      if ((base + o).squaredNorm() < limit2) return true;
+    }
+    return false;
+  }
+
   // Shortest image distance of frac_delta, leaving out the zero vector itself: with
   // frac_delta = 0 this is the distance from an atom to its own nearest image.
   double DistanceExcludingZero(const Eigen::Vector3d& frac_delta) const {

@@ -14,17 +14,26 @@ bool AssignSites(const std::vector<Eigen::Vector3d>& mover,
   w->chosen.resize(fixed.size());
   // Cheap rejection first, for every block, before any assignment is solved: most trial
   // translations of non-matching pairs fail here.
-  for (const auto& [begin, end] : blocks) {
+  // Only existence of a partner within reach matters here, so each search stops at the first.
+  // Smallest blocks first: their sites have the fewest candidate partners, so a wrong cell or
+  // origin usually shows there first (the verdict does not depend on the order).
+  // (More than 8 elements: input order, to keep the scratch space fixed.)
+  std::pair<int, int> order[8];
+  const bool reorder = blocks.size() <= 8;
+  if (reorder) {
+    std::partial_sort_copy(blocks.begin(), blocks.end(), order, order + blocks.size(),
+                           [](const std::pair<int, int>& x, const std::pair<int, int>& y) {
+                             return x.second - x.first < y.second - y.first;
+                           });
+  }
+  for (std::size_t b = 0; b < blocks.size(); ++b) {
+    const auto [begin, end] = reorder ? order[b] : blocks[b];
     const int nb = end - begin;
-    w->vectors.resize(static_cast<std::size_t>(nb) * nb);
     for (int j = 0; j < nb; ++j) {
       const Eigen::Vector3d target = fixed[begin + j] + shift;
-      double nearest2 = std::numeric_limits<double>::infinity();
-      for (int i = 0; i < nb; ++i) {
-        const Eigen::Vector3d v = image.Vector(mover[begin + i] - target);
-        nearest2 = std::min(nearest2, v.squaredNorm());
-      }
-      if (nearest2 >= reach2) return false;
+      bool found = false;
+      for (int i = 0; i < nb && !found; ++i) found = image.Within(mover[begin + i] - target, reach2);
+      if (!found) return false;
     }
   }
   for (const auto& [begin, end] : blocks) {

@@ -1,6 +1,7 @@
 // Reads structure pairs written by match_reference.py and prints nucleate's verdict for each:
 //   <index> <match 0|1> <rms> <max> <screen 0|1> <reason>
-// where screen says whether dedup's fingerprint screen would let the pair be compared at all.
+// where screen says whether dedup's screen (same fingerprint key, then the exact lattice screen of
+// core/match/lattice_index.h) would let the pair be compared at all.
 // The JSON is the script's own fixed layout ({"pairs": [{"a": S, "b": S}, ...]} with
 // S = {"lattice": [9 numbers, rows], "numbers": [...], "frac": [3N numbers]}), so a scanner for
 // the three flat arrays per structure is enough; anything else is reported as a parse error.
@@ -13,6 +14,7 @@
 
 #include "core/common/error.h"
 #include "core/match/fingerprint.h"
+#include "core/match/lattice_index.h"
 #include "core/match/prepared_crystal.h"
 #include "core/match/structure_matcher.h"
 
@@ -88,8 +90,11 @@ int main(int argc, char** argv) {
       namespace m = nucleate::match;
       const m::MatchTolerances t;
       const auto r = m::MatchStructures(a, b, t);
-      const bool screen = m::MayMatch(m::ComputeFingerprint(m::Prepare(a, t), t),
-                                      m::ComputeFingerprint(m::Prepare(b, t), t));
+      // As dedup runs it: a (the structure looked up) is the mover, b (a stored one) the target.
+      const m::PreparedCrystal pa = m::Prepare(a, t), pb = m::Prepare(b, t);
+      const bool screen =
+          m::ComputeFingerprint(pa, t).key == m::ComputeFingerprint(pb, t).key &&
+          m::LatticeScreenPasses(pa.lattice, pb.lattice, t.length_tolerance, t.angle_tolerance);
       std::printf("%d %d %.10g %.10g %d %s\n", index, r.match ? 1 : 0, r.rms, r.max_displacement,
                   screen ? 1 : 0, r.reason.c_str());
     } catch (const nucleate::Error& e) {

@@ -14,7 +14,7 @@ averaging and reduced-cell choices) and are listed one by one; and noisy copies 
 conventional cell that one program's primitive-cell search reduces and the other's does not
 (explained at the check, listed one by one). Where both match, the rms values
 must agree within 0.01 (units of (V/N)^(1/3)) or 5 %. Every pair pymatgen matches must also pass
-nucleate's dedup fingerprint screen (else dedup would miss it).
+nucleate's dedup screen, the exact lattice screen (else dedup would miss it).
 
 usage: match_reference.py <match_pairs executable> [seed]
 """
@@ -278,7 +278,7 @@ def main():
     for text in primitive_differs:
         print("PRIMITIVE-CELL SEARCH DIFFERS " + text)
     for text in screen_misses:
-        print("SCREEN MISS (pymatgen matches, fingerprint screen would not compare) " + text)
+        print("SCREEN MISS (pymatgen matches, dedup screen would not compare) " + text)
     for text in failures:
         print("DISAGREE " + text)
     if len(pairs) < 500:

@@ -5,6 +5,7 @@
 #include "core/common/error.h"
 #include "core/match/dedup.h"
 #include "core/match/structure_matcher.h"
+#include "tests/unit/match/dedup_workload.h"
 #include "tests/unit/match/match_support.h"
 
 namespace nucleate::match {
@@ -89,6 +90,23 @@ TEST(Deduplicate, FingerprintScreenGivesTheExhaustiveResult) {
     EXPECT_EQ(screened.groups, exhaustive.groups);
     EXPECT_LE(screened.pairs_matched, exhaustive.pairs_matched);
   }
+}
+
+// The benchmark's workload (dedup_workload.h: near-duplicates, exact duplicates and variants just
+// beyond the tolerances, one composition): the screen must not change a single group.
+TEST(Deduplicate, ScreenGivesTheExhaustiveGroupsOnTheBenchmarkWorkload) {
+  const auto structures = testing::DedupWorkload(3).Make(1500);
+  const DedupResult screened = Deduplicate(structures, MatchTolerances{}, 2);
+  const DedupResult exhaustive =
+      Deduplicate(structures, MatchTolerances{}, 2, DedupScreen::kFormulaOnly);
+  EXPECT_EQ(screened.groups, exhaustive.groups);
+  // The set exercises both sides: many groups with several members, many singletons.
+  int shared = 0;
+  for (const auto& g : exhaustive.groups) shared += g.size() > 1;
+  EXPECT_GT(shared, 100);
+  EXPECT_GT(exhaustive.groups.size(), 700u);
+  // And the screen does its job: far fewer pairwise matches.
+  EXPECT_LT(screened.pairs_matched * 10, exhaustive.pairs_matched);
 }
 
 TEST(Deduplicate, ResultDoesNotDependOnThreadCount) {

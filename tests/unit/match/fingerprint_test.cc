@@ -44,22 +44,26 @@ TEST(Fingerprint, KeyHoldsReducedFormulaAndPrimitiveSiteCount) {
 }
 
 TEST(CandidateIndex, NeighbourCellsCatchPairsAcrossABinEdge) {
-  // Two fingerprints 0.2 widths apart that straddle a bin edge: different cells, still found.
+  // The fingerprint grid serves supercell matching (the lattice screen does not apply there); the
+  // crystals are not consulted on that path. Two fingerprints 0.2 widths apart that straddle a bin edge: different cells, still found.
   Fingerprint a{"k", {0.99, 0.5}, {1.0, 1.0}};
   Fingerprint b{"k", {1.19, 0.5}, {1.0, 1.0}};
   ASSERT_NE(GridCell(a, 2), GridCell(b, 2));
-  CandidateIndex index(2);
-  index.Insert(0, &a);
+  MatchTolerances t;
+  t.allow_supercell = true;
+  const PreparedCrystal unused;
+  CandidateIndex index(DedupScreen::kFingerprint, t);
+  index.Insert(0, &a, unused);
   std::vector<int> found;
-  index.Query(b, &found);
+  index.Query(b, unused, &found);
   EXPECT_EQ(found, (std::vector<int>{0}));
   // More than one width apart on the screened value: filtered out.
   Fingerprint c{"k", {2.5, 0.5}, {1.0, 1.0}};
-  index.Query(c, &found);
+  index.Query(c, unused, &found);
   EXPECT_TRUE(found.empty());
   // Another key: never a candidate.
   Fingerprint d{"other", {0.99, 0.5}, {1.0, 1.0}};
-  index.Query(d, &found);
+  index.Query(d, unused, &found);
   EXPECT_TRUE(found.empty());
 }
 
