@@ -49,7 +49,7 @@ void AddCallCommand(CLI::App& app, std::function<int()>* run) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  CLI::App app{"nucleate: design noise schedules, generate and check crystal structures"};
+  CLI::App app{"nucleate: design noise schedules; check, match, deduplicate and convert crystal structures"};
   app.require_subcommand(1);
   std::function<int()> run;
   AddVersionCommand(app, &run);
