@@ -66,14 +66,15 @@ int RunCheck(const CheckOptions& options) {
   request += "}";
   const std::string reply_json = CallJson("Check", request);
 
+  const YAML::Node reply = ParseJson(reply_json);
   if (options.json) {
     for (const std::string& report : JsonArrayElements(reply_json, "reports")) {
       std::cout << report << '\n';
     }
   } else {
-    for (const YAML::Node& report : ParseJson(reply_json)["reports"]) PrintReport(report);
+    for (const YAML::Node& report : reply["reports"]) PrintReport(report);
   }
-  const YAML::Node summary = ParseJson(reply_json)["summary"];
+  const YAML::Node summary = reply["summary"];
   const int invalid = summary["invalid"].as<int>();
   const int unreadable = summary["unreadable"].as<int>() + unreadable_files;
   // With --json, stdout holds only the JSON lines; the summary goes to stderr.

@@ -5,14 +5,10 @@
 
 #include "codec.h"
 #include "core/structure/io/structure_file.h"
+#include "core/structure/lattice.h"
 
 namespace nucleate::capi {
 namespace {
-
-double Wrap(double x) {
-  const double wrapped = x - std::floor(x);
-  return wrapped >= 1.0 ? 0.0 : wrapped;  // x just below an integer can round up to 1.0
-}
 
 std::vector<InputStructure> ReadFile(const v1::StructureFile& file, const InputLimits& limits) {
   const std::string name = file.name().empty() ? "(unnamed file)" : file.name();
@@ -23,8 +19,7 @@ std::vector<InputStructure> ReadFile(const v1::StructureFile& file, const InputL
                                      std::to_string(limits.max_file_bytes)),
              {}}};
   }
-  const bool json_name =
-      name.size() >= 5 && name.compare(name.size() - 5, 5, ".json") == 0;
+  const bool json_name = structure::io::HasExtension(name, ".json");
   if (file.format() == v1::STRUCTURE_FORMAT_JSON ||
       (file.format() == v1::STRUCTURE_FORMAT_UNSPECIFIED && json_name)) {
     v1::Structure message;
@@ -112,7 +107,7 @@ structure::Crystal FromMessage(const v1::Structure& m, const structure::Structur
     for (int k = 0; k < 3; ++k) {
       const double x = m.frac_coords(3 * i + k);
       // Non-finite values pass through unwrapped: the validity check reports them by site.
-      crystal.frac[static_cast<std::size_t>(i)][k] = std::isfinite(x) ? Wrap(x) : x;
+      crystal.frac[static_cast<std::size_t>(i)][k] = std::isfinite(x) ? structure::WrapFraction(x) : x;
     }
   }
   crystal.label = m.label();

@@ -7,20 +7,18 @@
 #include "core/structure/io/extxyz.h"
 
 namespace nucleate::structure::io {
-namespace {
 
-bool EndsWith(std::string text, const std::string& suffix) {
+bool HasExtension(const std::string& name, const std::string& extension) {
+  std::string text = name;
   std::transform(text.begin(), text.end(), text.begin(),
                  [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
-  return text.size() >= suffix.size() &&
-         text.compare(text.size() - suffix.size(), suffix.size(), suffix) == 0;
+  return text.size() >= extension.size() &&
+         text.compare(text.size() - extension.size(), extension.size(), extension) == 0;
 }
 
-}  // namespace
-
 FileFormat FormatFromName(const std::string& name) {
-  if (EndsWith(name, ".cif")) return FileFormat::kCif;
-  if (EndsWith(name, ".xyz") || EndsWith(name, ".extxyz")) return FileFormat::kExtxyz;
+  if (HasExtension(name, ".cif")) return FileFormat::kCif;
+  if (HasExtension(name, ".xyz") || HasExtension(name, ".extxyz")) return FileFormat::kExtxyz;
   throw InvalidArgument(name, "cannot tell the format from the name: use .cif, .xyz or .extxyz, "
                               "or give the format");
 }

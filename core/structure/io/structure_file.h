@@ -21,6 +21,10 @@ struct FileStructure {
   std::vector<std::string> warnings;
 };
 
+// Whether `name` ends in `extension` (".cif"), ignoring case: the one rule for telling formats
+// from file names.
+bool HasExtension(const std::string& name, const std::string& extension);
+
 // .cif -> CIF; .xyz, .extxyz -> extended XYZ (case-insensitive). InvalidArgument naming the file
 // for any other name when the format is kFromName.
 FileFormat FormatFromName(const std::string& name);
