@@ -8,6 +8,7 @@
 #include "methods/check_method.h"
 #include "methods/convert_method.h"
 #include "methods/match_methods.h"
+#include "methods/model_methods.h"
 #include "methods/schedule_methods.h"
 #include "methods/version_method.h"
 #include "nucleate/v1/error.pb.h"
@@ -69,6 +70,8 @@ const std::vector<MethodEntry>& Methods() {
       MatchMethod(),
       DedupMethod(),
       ConvertMethod(),
+      TrainMethod(),
+      ModelInfoMethod(),
   };
   return kMethods;
 }

@@ -1,6 +1,8 @@
 // The CLI's one door into the library: nucleate_call with protobuf JSON.
 #pragma once
 
+#include <functional>
+
 #include <stdexcept>
 #include <string>
 
@@ -19,5 +21,16 @@ class CallFailed : public std::runtime_error {
 
 // Returns the reply JSON, or throws CallFailed.
 std::string CallJson(const std::string& method, const std::string& request_json);
+
+// Callbacks for long calls; either may be empty. progress returns false to cancel.
+struct CallObserver {
+  std::function<void(int level, const std::string& line)> log;
+  std::function<bool(double fraction, const std::string& stage)> progress;
+};
+
+// As CallJson, with log and progress. A call cancelled through `progress` returns the reply of
+// what was finished and sets *cancelled; other failures throw CallFailed.
+std::string CallJsonObserved(const std::string& method, const std::string& request_json,
+                             const CallObserver& observer, bool* cancelled);
 
 }  // namespace nucleate::cli

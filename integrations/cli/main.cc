@@ -14,6 +14,7 @@
 #include "design_command.h"
 #include "nucleate/nucleate.h"
 #include "schedule_command.h"
+#include "train_command.h"
 
 namespace {
 
@@ -49,7 +50,7 @@ void AddCallCommand(CLI::App& app, std::function<int()>* run) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  CLI::App app{"nucleate: design noise schedules; check, match, deduplicate and convert crystal structures"};
+  CLI::App app{"nucleate: design noise schedules; train denoisers; check, match, deduplicate and convert crystal structures"};
   app.require_subcommand(1);
   std::function<int()> run;
   AddVersionCommand(app, &run);
@@ -60,6 +61,8 @@ int main(int argc, char** argv) {
   nucleate::cli::AddMatchCommand(app, &run);
   nucleate::cli::AddDedupCommand(app, &run);
   nucleate::cli::AddConvertCommand(app, &run);
+  nucleate::cli::AddTrainCommand(app, &run);
+  nucleate::cli::AddModelCommand(app, &run);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

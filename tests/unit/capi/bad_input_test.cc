@@ -73,6 +73,25 @@ INSTANTIATE_TEST_SUITE_P(
         BadCase{"DesignSchedule", R"({"resolution_angstrom":"NaN"})",
                 NUCLEATE_ERROR_INVALID_ARGUMENT, "resolution_angstrom"}));
 
+// Train and ModelInfo: configuration mistakes name the key and line; model files that are
+// missing or not model files name the path.
+INSTANTIATE_TEST_SUITE_P(
+    Model, BadRequest,
+    testing::Values(
+        BadCase{"Train", R"({"config_yaml":"","config_name":"t.yaml"})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "t.yaml"},
+        BadCase{"Train",
+                R"({"config_yaml":"data: {directory: d}\noutput: {model: m}\ntraining: {epochz: 2}\n","config_name":"t.yaml"})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "t.yaml:3: training.epochz"},
+        BadCase{"Train",
+                R"({"config_yaml":"data: {directory: /nonexistent/nucleate/dir}\noutput: {model: m}\n"})",
+                NUCLEATE_ERROR_IO, "/nonexistent/nucleate/dir"},
+        BadCase{"ModelInfo", "{}", NUCLEATE_ERROR_INVALID_ARGUMENT, "path"},
+        BadCase{"ModelInfo", R"({"path":"/nonexistent/model.nucleate"})", NUCLEATE_ERROR_IO,
+                "/nonexistent/model.nucleate"},
+        BadCase{"ModelInfo", R"({"path":"/etc/passwd"})", NUCLEATE_ERROR_INVALID_ARGUMENT,
+                "/etc/passwd"}));
+
 TEST(BadArguments, NullPointersAndBadEncodingsAreRefused) {
   void* reply = nullptr;
   size_t size = 0;
