@@ -6,6 +6,10 @@
 // Inserts use the logarithmic method: a small unsorted buffer plus static k-d trees of sizes
 // kBuffer * 2^k; a full buffer is merged with the trees of equal size into one new tree, so each
 // point is rebuilt O(log n) times in all.
+//
+// Each tree node keeps the bounding box of its points, and most queries find nothing: a node's
+// box, tested in all six dimensions at once, prunes such a query near the root, where the split
+// value alone would rule out only one dimension per level.
 #pragma once
 
 #include <array>
@@ -16,6 +20,11 @@ namespace nucleate::match {
 class BoxTree {
  public:
   using Coordinates = std::array<double, 6>;
+
+  // `scale`: the typical query half width per coordinate. Nodes are split along the coordinate in
+  // which their points spread most in these units, so the boxes of small nodes become about as
+  // wide as a query in every coordinate, whatever its units.
+  explicit BoxTree(const Coordinates& scale) : scale_(scale) {}
 
   // Not thread-safe against concurrent queries.
   void Insert(int id, const Coordinates& x);
@@ -31,11 +40,20 @@ class BoxTree {
     int id;
     Coordinates x;
   };
-  using Tree = std::vector<Point>;  // implicit k-d tree: node = middle of a range, split on depth % 6
-  static void Build(Tree* tree, std::size_t begin, std::size_t end, int depth);
-  static void Search(const Tree& tree, std::size_t begin, std::size_t end, int depth,
+  struct Box {
+    Coordinates lo, hi;  // the smallest box holding the node's points (closed)
+  };
+  // Points of a node = a range; node `node` has children 2 node + 1 and 2 node + 2, splitting its
+  // range at the middle, down to leaves of at most kLeaf points.
+  struct Tree {
+    std::vector<Point> points;
+    std::vector<Box> boxes;  // per node, indexed as above
+  };
+  void Build(Tree* tree, std::size_t node, std::size_t begin, std::size_t end) const;
+  static void Search(const Tree& tree, std::size_t node, std::size_t begin, std::size_t end,
                      const Coordinates& lo, const Coordinates& hi, std::vector<int>* out);
 
+  Coordinates scale_;
   std::vector<Point> buffer_;
   std::vector<Tree> trees_;  // trees_[k]: empty or kBuffer * 2^k points
 };

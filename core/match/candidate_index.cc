@@ -10,6 +10,10 @@ constexpr std::size_t kGridDims = 4;
 
 }  // namespace
 
+bool CandidateIndex::UsesFingerprintValues(DedupScreen screen, const MatchTolerances& tolerances) {
+  return CandidateIndex(screen, tolerances).mode_ == Mode::kFingerprintGrid;
+}
+
 CandidateIndex::CandidateIndex(DedupScreen screen, const MatchTolerances& tolerances)
     : tolerances_(tolerances) {
   if (screen == DedupScreen::kFormulaOnly) {
@@ -61,6 +65,24 @@ void CandidateIndex::Query(const Fingerprint& f, const PreparedCrystal& crystal,
       QueryGrid(f, bucket, out, min_id);
       break;
   }
+}
+
+void CandidateIndex::Query(const Fingerprint& f, const PreparedCrystal& crystal, LatticeHits* out,
+                           int min_id) const {
+  if (mode_ == Mode::kLattice) {
+    out->bases.clear();
+    out->hits.clear();
+    out->bases_known = true;
+    const auto found = buckets_.find(f.key);
+    if (found != buckets_.end()) found->second.lattice->Query(crystal.lattice, out, min_id);
+    return;
+  }
+  std::vector<int> ids;
+  Query(f, crystal, &ids, min_id);
+  out->bases.clear();
+  out->hits.clear();
+  out->bases_known = false;
+  for (int id : ids) out->hits.emplace_back(id, -1);
 }
 
 void CandidateIndex::QueryGrid(const Fingerprint& f, const Bucket& bucket, std::vector<int>* out,

@@ -31,12 +31,22 @@ class CandidateIndex {
  public:
   CandidateIndex(DedupScreen screen, const MatchTolerances& tolerances);
 
+  // Whether this screen reads Fingerprint::values (only the fingerprint grid does); if not, a
+  // fingerprint holding only the key (FingerprintKey) serves.
+  static bool UsesFingerprintValues(DedupScreen screen, const MatchTolerances& tolerances);
+
   // Not thread-safe against concurrent queries; ids must be inserted in increasing order. The
   // pointed-to fingerprint must outlive the index.
   void Insert(int id, const Fingerprint* fingerprint, const PreparedCrystal& crystal);
 
-  // Ids that may match (f, crystal), ascending, optionally only those >= min_id. Read-only: safe
-  // from many threads while no Insert runs.
+  // Ids that may match (f, crystal), ascending, optionally only those >= min_id, in *out (cleared
+  // first). With the lattice screen each id comes with the bases of crystal's lattice that reach
+  // it (LatticeHits, for MatchesUnderBases); otherwise each id is listed once with basis -1 and
+  // bases_known is false. Read-only: safe from many threads while no Insert runs.
+  void Query(const Fingerprint& f, const PreparedCrystal& crystal, LatticeHits* out,
+             int min_id = 0) const;
+
+  // The same, ids only.
   void Query(const Fingerprint& f, const PreparedCrystal& crystal, std::vector<int>* out,
              int min_id = 0) const;
 

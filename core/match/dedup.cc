@@ -2,22 +2,23 @@
 
 #include <algorithm>
 #include <atomic>
+#include <limits>
 #include <string>
 #include <thread>
 
 #include "core/common/error.h"
 #include "core/match/candidate_index.h"
 #include "core/match/fingerprint.h"
-#include "core/match/parallel_for.h"
+#include "core/common/parallel_for.h"
 #include "core/match/prepared_crystal.h"
 #include "core/match/structure_matcher.h"
 
 namespace nucleate::match {
 namespace {
 
-// Structures per chunk: large enough to keep threads busy, small enough that the sequential
-// resolution inside a chunk (matching against representatives founded in the same chunk) stays a
-// small share of the work.
+// Structures per chunk: large enough to keep threads busy, small enough that the work inside a
+// chunk (its unmatched members matched against each other, which grows with the square of the
+// chunk) stays a small share of the work.
 constexpr std::size_t kChunk = 512;
 
 int ThreadCount(int threads) {
@@ -29,10 +30,13 @@ int ThreadCount(int threads) {
 struct Prepared {
   std::vector<PreparedCrystal> crystals;
   std::vector<Fingerprint> fingerprints;
+  std::vector<TargetShape> shapes;  // per structure as a target, for MatchesUnderBases
 };
 
 Prepared PrepareAll(const std::vector<structure::Crystal>& structures,
-                    const MatchTolerances& tolerances, int threads, const char* field) {
+                    const MatchTolerances& tolerances, DedupScreen screen, int threads,
+                    const char* field) {
+  const bool values = CandidateIndex::UsesFingerprintValues(screen, tolerances);
   ValidateTolerances(tolerances);
   Prepared p;
   p.crystals.resize(structures.size());
@@ -43,9 +47,72 @@ Prepared PrepareAll(const std::vector<structure::Crystal>& structures,
     } catch (const Error& e) {
       throw e.WithinField(std::string(field) + "[" + std::to_string(i) + "]");
     }
-    p.fingerprints[i] = ComputeFingerprint(p.crystals[i], tolerances);
+    if (values) {
+      p.fingerprints[i] = ComputeFingerprint(p.crystals[i], tolerances);
+    } else {
+      p.fingerprints[i].key = FingerprintKey(p.crystals[i], tolerances);
+    }
   });
+  p.shapes.reserve(structures.size());
+  for (const auto& c : p.crystals) p.shapes.push_back(ShapeOf(c, tolerances));
   return p;
+}
+
+// Buffers of a query and its pairwise matches, kept from query to query.
+struct MatchScratch {
+  LatticeHits hits;
+  std::vector<const CandidateBasis*> bases;
+  MatcherWorkspace matcher;
+};
+
+// Whether `mover` matches target j, where hits[first, last) are the query's entries for j:
+// MatchPrepared(mover, target, tolerances, true).match in both branches (with the bases the
+// lattice screen found, MatchesUnderBases skips the lattice search).
+bool Matches(const PreparedCrystal& mover, const Prepared& targets, int j,
+             const MatchTolerances& tolerances, std::size_t first, std::size_t last,
+             MatchScratch* scratch) {
+  if (!scratch->hits.bases_known) {
+    return MatchPrepared(mover, targets.crystals[j], tolerances, true).match;
+  }
+  scratch->bases.clear();
+  for (std::size_t h = first; h < last; ++h) {
+    scratch->bases.push_back(&scratch->hits.bases[scratch->hits.hits[h].second]);
+  }
+  return MatchesUnderBases(mover, targets.crystals[j], tolerances, targets.shapes[j],
+                           scratch->bases, &scratch->matcher);
+}
+
+// The end of the run of entries for one id that starts at `first`.
+std::size_t RunEnd(const std::vector<std::pair<int, int>>& hits, std::size_t first) {
+  std::size_t last = first + 1;
+  while (last < hits.size() && hits[last].first == hits[first].first) ++last;
+  return last;
+}
+
+// The lowest id in scratch->hits, from entry `from` on and below `below`, that `mover` matches
+// and `eligible(id)` allows, or -1. *next receives the entry after the matching id's (or the end).
+// Each target tried counts as one pair.
+template <typename Eligible>
+int FirstMatch(const PreparedCrystal& mover, const Prepared& targets,
+               const MatchTolerances& tolerances, std::size_t from, int below,
+               const Eligible& eligible, MatchScratch* scratch, std::int64_t* pairs,
+               std::size_t* next = nullptr) {
+  const auto& hits = scratch->hits.hits;
+  std::size_t first = from;
+  while (first < hits.size() && hits[first].first < below) {
+    const int id = hits[first].first;
+    const std::size_t last = RunEnd(hits, first);
+    if (eligible(id)) {
+      ++*pairs;
+      if (Matches(mover, targets, id, tolerances, first, last, scratch)) {
+        if (next) *next = last;
+        return id;
+      }
+    }
+    first = last;
+  }
+  if (next) *next = hits.size();
+  return -1;
 }
 
 }  // namespace
@@ -53,62 +120,84 @@ Prepared PrepareAll(const std::vector<structure::Crystal>& structures,
 DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
                         const MatchTolerances& tolerances, int threads, DedupScreen screen) {
   const int workers = ThreadCount(threads);
-  const Prepared p = PrepareAll(structures, tolerances, workers, "structures");
+  const Prepared p = PrepareAll(structures, tolerances, screen, workers, "structures");
   const int n = static_cast<int>(structures.size());
 
   DedupResult result;
   result.group_of.assign(n, -1);
   CandidateIndex representatives(screen, tolerances);
   std::atomic<std::int64_t> pairs{0};
+  const auto everyone = [](int) { return true; };
+  const int no_limit = std::numeric_limits<int>::max();
   std::vector<int> found(kChunk);
+  std::vector<std::size_t> first_open(kChunk);  // phase 2: the hit after m(i)'s
+  std::vector<MatchScratch> scratch(workers);   // per worker, kept from chunk to chunk
 
   for (int start = 0; start < n; start += static_cast<int>(kChunk)) {
     const int end = std::min(n, start + static_cast<int>(kChunk));
+    const std::size_t size = static_cast<std::size_t>(end - start);
     // Phase 1, parallel: the lowest-index earlier representative each member matches. The index
     // only holds representatives of earlier chunks here and is not modified meanwhile.
-    ParallelFor(static_cast<std::size_t>(end - start), workers, [&](std::size_t k) {
+    ParallelFor(size, workers, [&](std::size_t k, int worker) {
       const int i = start + static_cast<int>(k);
-      found[k] = -1;
-      std::vector<int> candidates;
-      representatives.Query(p.fingerprints[i], p.crystals[i], &candidates);
-      for (int j : candidates) {
-        ++pairs;
-        if (MatchPrepared(p.crystals[i], p.crystals[j], tolerances, true).match) {
-          found[k] = j;
-          break;
-        }
-      }
+      std::int64_t tried = 0;
+      representatives.Query(p.fingerprints[i], p.crystals[i], &scratch[worker].hits);
+      found[k] = FirstMatch(p.crystals[i], p, tolerances, 0, no_limit, everyone,
+                            &scratch[worker], &tried);
+      pairs += tried;
     });
-    // Phase 2, in order: members without an earlier match try this chunk's new representatives
-    // (all of higher index than any earlier one, so the lowest-index rule still holds). They are
-    // held in an index of their own until the chunk ends, so these sequential queries search a
-    // few hundred representatives, not all of them.
-    CandidateIndex fresh(screen, tolerances);
-    std::vector<int> founded;
-    std::vector<int> candidates;
+    // Phase 2: members without an earlier match ("open") may found a group, or join one founded
+    // in this chunk: the lowest-index such representative they match, as the sequential rule
+    // says. Which open members are representatives depends on that very resolution, so the
+    // parallel part matches each open member i against every open member below it (a superset of
+    // the representatives it could join) and keeps the lowest it matches, m(i). Resolving in
+    // order then needs no more matching in the usual case: if m(i) is none, no representative
+    // below i matches and i founds a group; if m(i) is a representative, every lower open member,
+    // representative or not, failed to match, so m(i) is the lowest representative i matches.
+    // Only when m(i) itself joined a group does i go on, past m(i), through representatives alone.
+    // The extra pairs (open members that turn out not to be representatives) are the same for
+    // any thread count. Open members are held in an index of their own, so these queries search
+    // a few hundred structures, not all representatives.
+    CandidateIndex open(screen, tolerances);
+    std::vector<int> open_ids;
     for (int i = start; i < end; ++i) {
-      int rep = found[i - start];
-      if (rep < 0) {
-        fresh.Query(p.fingerprints[i], p.crystals[i], &candidates);
-        for (int j : candidates) {
-          ++pairs;
-          if (MatchPrepared(p.crystals[i], p.crystals[j], tolerances, true).match) {
-            rep = j;
-            break;
-          }
-        }
+      if (found[i - start] >= 0) continue;
+      open.Insert(i, &p.fingerprints[i], p.crystals[i]);
+      open_ids.push_back(i);
+    }
+    ParallelFor(open_ids.size(), workers, [&](std::size_t q, int worker) {
+      const int i = open_ids[q];
+      const std::size_t k = static_cast<std::size_t>(i - start);
+      std::int64_t tried = 0;
+      open.Query(p.fingerprints[i], p.crystals[i], &scratch[worker].hits);
+      found[k] = FirstMatch(p.crystals[i], p, tolerances, 0, i, everyone, &scratch[worker],
+                            &tried, &first_open[k]);
+      pairs += tried;
+    });
+    std::int64_t tried = 0;
+    const auto is_representative = [&](int j) { return result.groups[result.group_of[j]][0] == j; };
+    for (int i = start; i < end; ++i) {
+      const std::size_t k = static_cast<std::size_t>(i - start);
+      int rep = found[k];
+      if (rep >= 0 && rep >= start && !is_representative(rep)) {
+        // m(i) joined a group: go on. The query is run again (rarely needed, so its hits were
+        // not kept); on the unchanged index it gives the same hits, so first_open[k] holds.
+        open.Query(p.fingerprints[i], p.crystals[i], &scratch[0].hits);
+        rep = FirstMatch(p.crystals[i], p, tolerances, first_open[k], i, is_representative,
+                         &scratch[0], &tried);
       }
       if (rep < 0) {
         result.group_of[i] = static_cast<int>(result.groups.size());
         result.groups.push_back({i});
-        fresh.Insert(i, &p.fingerprints[i], p.crystals[i]);
-        founded.push_back(i);
       } else {
         result.group_of[i] = result.group_of[rep];
         result.groups[result.group_of[rep]].push_back(i);
       }
     }
-    for (int i : founded) representatives.Insert(i, &p.fingerprints[i], p.crystals[i]);
+    pairs += tried;
+    for (int i : open_ids) {
+      if (is_representative(i)) representatives.Insert(i, &p.fingerprints[i], p.crystals[i]);
+    }
   }
   result.pairs_matched = pairs.load();
   return result;
@@ -118,8 +207,8 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
                       const std::vector<structure::Crystal>& references,
                       const MatchTolerances& tolerances, int threads, DedupScreen screen) {
   const int workers = ThreadCount(threads);
-  const Prepared c = PrepareAll(candidates, tolerances, workers, "candidates");
-  const Prepared r = PrepareAll(references, tolerances, workers, "references");
+  const Prepared c = PrepareAll(candidates, tolerances, screen, workers, "candidates");
+  const Prepared r = PrepareAll(references, tolerances, screen, workers, "references");
   CandidateIndex index(screen, tolerances);
   for (std::size_t j = 0; j < references.size(); ++j) {
     index.Insert(static_cast<int>(j), &r.fingerprints[j], r.crystals[j]);
@@ -128,17 +217,17 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
   result.novel.assign(candidates.size(), 1);
   result.reference.assign(candidates.size(), -1);
   std::atomic<std::int64_t> pairs{0};
-  ParallelFor(candidates.size(), workers, [&](std::size_t i) {
-    std::vector<int> found;
-    index.Query(c.fingerprints[i], c.crystals[i], &found);
-    for (int j : found) {
-      ++pairs;
-      if (MatchPrepared(c.crystals[i], r.crystals[j], tolerances, true).match) {
-        result.novel[i] = 0;
-        result.reference[i] = j;
-        break;
-      }
+  std::vector<MatchScratch> scratch(workers);
+  ParallelFor(candidates.size(), workers, [&](std::size_t i, int worker) {
+    std::int64_t tried = 0;
+    index.Query(c.fingerprints[i], c.crystals[i], &scratch[worker].hits);
+    const int j = FirstMatch(c.crystals[i], r, tolerances, 0, std::numeric_limits<int>::max(),
+                             [](int) { return true; }, &scratch[worker], &tried);
+    if (j >= 0) {
+      result.novel[i] = 0;
+      result.reference[i] = j;
     }
+    pairs += tried;
   });
   result.pairs_matched = pairs.load();
   return result;

@@ -22,14 +22,18 @@ struct DedupResult {
   // the representative.
   std::vector<std::vector<int>> groups;
   std::vector<int> group_of;      // per input structure: its group's position in `groups`
-  std::int64_t pairs_matched = 0; // pairwise matches run (cost measure, same for any thread count)
+  // Pairwise matches run (cost measure, the same for any thread count). Includes the matches
+  // of a chunk's unmatched members against each other that turn out not to be needed (see
+  // Deduplicate), so it can exceed the count of the plain sequential rule by a little.
+  std::int64_t pairs_matched = 0;
 };
 
 // Greedy in input order: structure i joins the group of the lowest-index representative it
 // matches (MatchPrepared(i, representative)); if none, it founds a new group. The result is that
 // of this sequential rule for any thread count: work is done in chunks, each chunk first matched
-// in parallel against the representatives of earlier chunks, then its unmatched members
-// resolved in order. `threads` >= 1; 0 means std::thread::hardware_concurrency().
+// in parallel against the representatives of earlier chunks; then its unmatched members are
+// matched in parallel against each other (each against the lower ones, up to the first match)
+// and resolved in order. `threads` >= 1; 0 means std::thread::hardware_concurrency().
 // Raises InvalidArgument("threads") for a negative count, and any error of Prepare for
 // structure k inside field "structures[k]" (the lowest such k).
 DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,

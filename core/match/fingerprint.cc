@@ -36,12 +36,15 @@ std::vector<double> MeanNearestNeighbour(const PreparedCrystal& c) {
 
 }  // namespace
 
+std::string FingerprintKey(const PreparedCrystal& c, const MatchTolerances& t) {
+  return t.allow_supercell ? c.formula : c.formula + " / " + std::to_string(c.size());
+}
+
 Fingerprint ComputeFingerprint(const PreparedCrystal& c, const MatchTolerances& t) {
   Fingerprint f;
-  f.key = c.formula;
+  f.key = FingerprintKey(c, t);
   const double n = static_cast<double>(c.size());
   if (!t.allow_supercell) {
-    f.key += " / " + std::to_string(c.size());
     std::vector<double> minima;
     for (int k = 0; k < 3; ++k) minima.push_back(c.lattice.row(k).norm());
     std::sort(minima.begin(), minima.end());

@@ -46,6 +46,10 @@ struct Fingerprint {
 
 Fingerprint ComputeFingerprint(const PreparedCrystal& crystal, const MatchTolerances& tolerances);
 
+// The key alone (Fingerprint::key), for screens that use no values: the values' nearest-neighbour
+// search is most of a fingerprint's cost.
+std::string FingerprintKey(const PreparedCrystal& crystal, const MatchTolerances& tolerances);
+
 // Same key and every value within its width. A false here means the pair is not compared.
 bool MayMatch(const Fingerprint& x, const Fingerprint& y);
 

@@ -16,8 +16,16 @@
 // Negating all three vectors of v changes no length or angle, so only one of each such pair is
 // enumerated.
 //
+// A query also reports which enumerated bases reached each target (LatticeHits): they include,
+// up to sign, every lattice mapping the matcher would find for the pair, so dedup hands them to
+// the matcher (MatchesUnderBases, structure_matcher.h) instead of searching the lattice again per
+// pair.
+//
 // Cost: one enumeration per query (independent of the number of stored lattices) plus one box
-// query per enumerated basis (about a hundred for 20-atom cells of one composition).
+// query per enumerated basis (about a hundred for 20-atom cells of one composition). In the
+// enumeration, the tests that involve only two of the three vectors are made once per pair of
+// vectors, and angles are first screened by their cosines (CosineWindow), so most acos calls are
+// skipped.
 #pragma once
 
 #include <vector>
@@ -25,8 +33,34 @@
 #include <Eigen/Dense>
 
 #include "core/match/box_tree.h"
+#include "core/match/lattice_mapping.h"
+#include "core/match/lattice_points.h"
 
 namespace nucleate::match {
+
+// What one query found: the bases of the mover it enumerated and, per stored target, which of them
+// reach it. Of every pair of bases v, -v (same lengths and angles) only the one whose first row's
+// first non-zero coefficient is positive is enumerated.
+struct LatticeHits {
+  std::vector<CandidateBasis> bases;
+  // (target id, index into `bases`), ascending, without repeats. For every target, the bases listed
+  // with it include, up to sign, every mapping FindLatticeMappings(mover, target, ltol, angle_tol,
+  // 1) returns; a listed basis may still fail MappingTest by up to the rounding slack.
+  std::vector<std::pair<int, int>> hits;
+  // False when the enumeration was refused (too many lattice points): then every stored id >=
+  // min_id is listed with basis -1, and the matcher must search the lattice itself.
+  bool bases_known = true;
+
+  // The query's own buffers, kept with its result so that repeated queries do not allocate.
+  struct Scratch {
+    std::vector<LatticePoint> points;
+    std::vector<double> log_length, beta;
+    std::vector<int> slot[3], found;
+    std::vector<std::pair<std::size_t, double>> thirds;
+    std::vector<std::pair<std::size_t, std::size_t>> with_b;
+    std::vector<char> with_b_done, beta_done;
+  } scratch;
+};
 
 class LatticeIndex {
  public:
@@ -36,9 +70,12 @@ class LatticeIndex {
   // against concurrent queries.
   void Insert(int id, const Eigen::Matrix3d& lattice);
 
-  // Appends to *out every stored id >= min_id for which FindLatticeMappings(mover, target,
-  // ltol, angle_tol, 1) is not empty, ascending and without repeats (the caller clears *out).
+  // Fills *out (cleared first) with every stored id >= min_id for which FindLatticeMappings(mover,
+  // target, ltol, angle_tol, 1) is not empty, each with the bases that reach it (see LatticeHits).
   // Read-only: safe from many threads while no Insert runs.
+  void Query(const Eigen::Matrix3d& mover, LatticeHits* out, int min_id = 0) const;
+
+  // The same, ids only: appended to *out ascending and without repeats (the caller clears *out).
   void Query(const Eigen::Matrix3d& mover, std::vector<int>* out, int min_id = 0) const;
 
   bool empty() const { return ids_.empty(); }

@@ -1,18 +1,53 @@
 #include "core/match/lattice_mapping.h"
 
 #include <cmath>
+#include <limits>
 
 namespace nucleate::match {
 namespace {
 
 constexpr double kDegreesPerRadian = 57.29577951308232;
 
-double AngleDegrees(const Eigen::Vector3d& x, const Eigen::Vector3d& y, double lx, double ly) {
-  const double c = std::max(-1.0, std::min(1.0, x.dot(y) / (lx * ly)));
-  return std::acos(c) * kDegreesPerRadian;
+double Cosine(const Eigen::Vector3d& x, const Eigen::Vector3d& y, double lx, double ly) {
+  return x.dot(y) / (lx * ly);
+}
+
+double DegreesFromCosine(double c) {
+  return std::acos(std::max(-1.0, std::min(1.0, c))) * kDegreesPerRadian;
 }
 
 }  // namespace
+
+double AngleDegrees(const Eigen::Vector3d& x, const Eigen::Vector3d& y, double lx, double ly) {
+  return DegreesFromCosine(Cosine(x, y, lx, ly));
+}
+
+void CosineWindow(double from_degrees, double to_degrees, double* lo, double* hi) {
+  const double inf = std::numeric_limits<double>::infinity();
+  *lo = to_degrees >= 180 ? -inf
+                          : std::cos(to_degrees / kDegreesPerRadian) - kCosineSlack;
+  *hi = from_degrees <= 0 ? inf
+                          : std::cos(from_degrees / kDegreesPerRadian) + kCosineSlack;
+}
+
+MappingTest::MappingTest(const Eigen::Matrix3d& target, double length_tolerance,
+                         double angle_tolerance)
+    : hi_(1 + length_tolerance), angle_tolerance_(angle_tolerance) {
+  lo_ = 1 / hi_;
+  const Eigen::Vector3d length = target.rowwise().norm();
+  for (int k = 0; k < 3; ++k) length_[k] = length[k];
+  const Eigen::Vector3d t0 = target.row(0), t1 = target.row(1), t2 = target.row(2);
+  angle_[0] = AngleDegrees(t1, t2, length_[1], length_[2]);
+  angle_[1] = AngleDegrees(t0, t2, length_[0], length_[2]);
+  angle_[2] = AngleDegrees(t0, t1, length_[0], length_[1]);
+}
+
+bool MappingTest::Accepts(const CandidateBasis& v) const {
+  for (int k = 0; k < 3; ++k) {
+    if (!LengthFits(k, v.length[k]) || !AngleFits(k, v.angle[k])) return false;
+  }
+  return true;
+}
 
 double MappingSearchRadius(const Eigen::Matrix3d& target, double length_tolerance) {
   return target.rowwise().norm().maxCoeff() * (1 + length_tolerance);
@@ -28,34 +63,31 @@ std::vector<LatticeMapping> FindLatticeMappings(const Eigen::Matrix3d& lattice,
     own = LatticePointsWithin(lattice, MappingSearchRadius(target, length_tolerance));
     points = &own;
   }
-  const double hi = 1 + length_tolerance, lo = 1 / hi;
-  Eigen::Vector3d t_len = target.rowwise().norm();
-  const Eigen::Vector3d t0 = target.row(0), t1 = target.row(1), t2 = target.row(2);
-  const double t_alpha = AngleDegrees(t1, t2, t_len[1], t_len[2]);
-  const double t_beta = AngleDegrees(t0, t2, t_len[0], t_len[2]);
-  const double t_gamma = AngleDegrees(t0, t1, t_len[0], t_len[1]);
+  const MappingTest test(target, length_tolerance, angle_tolerance);
 
   std::vector<const LatticePoint*> cand[3];
   for (const auto& p : *points) {
     for (int k = 0; k < 3; ++k) {
-      const double ratio = p.length / t_len[k];
-      if (ratio > lo && ratio < hi) cand[k].push_back(&p);
+      if (test.LengthFits(k, p.length)) cand[k].push_back(&p);
     }
   }
+  // Each angle is first screened by its cosine (the window never rejects an angle that
+  // AngleFits accepts), so the acos is only taken for the few pairs near the window.
+  double cos_lo[3], cos_hi[3];
+  for (int k = 0; k < 3; ++k) {
+    CosineWindow(test.angle(k) - angle_tolerance, test.angle(k) + angle_tolerance, &cos_lo[k],
+                 &cos_hi[k]);
+  }
+  const auto fits = [&](int k, const LatticePoint* x, const LatticePoint* y) {
+    const double c = Cosine(x->cartesian, y->cartesian, x->length, y->length);
+    return c > cos_lo[k] && c < cos_hi[k] && test.AngleFits(k, DegreesFromCosine(c));
+  };
   std::vector<LatticeMapping> out;
   for (const LatticePoint* a : cand[0]) {
     for (const LatticePoint* b : cand[1]) {
-      if (std::abs(AngleDegrees(a->cartesian, b->cartesian, a->length, b->length) - t_gamma) >=
-          angle_tolerance) {
-        continue;
-      }
+      if (!fits(2, a, b)) continue;
       for (const LatticePoint* c : cand[2]) {
-        if (std::abs(AngleDegrees(b->cartesian, c->cartesian, b->length, c->length) - t_alpha) >=
-                angle_tolerance ||
-            std::abs(AngleDegrees(a->cartesian, c->cartesian, a->length, c->length) - t_beta) >=
-                angle_tolerance) {
-          continue;
-        }
+        if (!fits(0, b, c) || !fits(1, a, c)) continue;
         LatticeMapping m;
         m.coefficients.row(0) = a->coefficients.transpose();
         m.coefficients.row(1) = b->coefficients.transpose();

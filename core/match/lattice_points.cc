@@ -27,6 +27,13 @@ bool Before(const LatticePoint& x, const LatticePoint& y) {
 }  // namespace
 
 std::vector<LatticePoint> LatticePointsWithin(const Eigen::Matrix3d& lattice, double radius) {
+  std::vector<LatticePoint> points;
+  LatticePointsWithin(lattice, radius, &points);
+  return points;
+}
+
+void LatticePointsWithin(const Eigen::Matrix3d& lattice, double radius,
+                         std::vector<LatticePoint>* out) {
   const double r = radius * (1 + kRadiusSlack);
   const Eigen::Vector3d recip = structure::ReciprocalLattice(lattice).rowwise().norm();
   int bound[3];
@@ -39,7 +46,8 @@ std::vector<LatticePoint> LatticePointsWithin(const Eigen::Matrix3d& lattice, do
     throw LimitExceeded("lattice", "lattice-vector search would visit more than " +
                                        std::to_string(kMaxLatticePoints) + " points");
   }
-  std::vector<LatticePoint> points;
+  std::vector<LatticePoint>& points = *out;
+  points.clear();
   for (int i = -bound[0]; i <= bound[0]; ++i) {
     for (int j = -bound[1]; j <= bound[1]; ++j) {
       for (int k = -bound[2]; k <= bound[2]; ++k) {
@@ -51,7 +59,6 @@ std::vector<LatticePoint> LatticePointsWithin(const Eigen::Matrix3d& lattice, do
     }
   }
   std::sort(points.begin(), points.end(), Before);
-  return points;
 }
 
 Eigen::Matrix3d ShortestBasis(const Eigen::Matrix3d& lattice, Eigen::Matrix3i* transform) {

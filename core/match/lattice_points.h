@@ -22,6 +22,10 @@ struct LatticePoint {
 // with b_k the reciprocal rows bounds the search; a reduced basis only keeps it small.
 std::vector<LatticePoint> LatticePointsWithin(const Eigen::Matrix3d& lattice, double radius);
 
+// The same into *points (replaced), reusing its storage.
+void LatticePointsWithin(const Eigen::Matrix3d& lattice, double radius,
+                         std::vector<LatticePoint>* points);
+
 // A basis of the same lattice made of the shortest vectors: its lengths are the successive minima
 // (in three dimensions vectors realising the successive minima always form a basis, so this is a
 // Buerger-reduced cell). Right-handed. `transform` (optional) receives the integer matrix with

@@ -6,35 +6,46 @@
 
 namespace nucleate::match {
 
+void RejectionOrder(const std::vector<std::pair<int, int>>& blocks,
+                    std::vector<std::pair<int, int>>* order) {
+  // Insertion sort: stable, and without the buffer std::stable_sort would allocate per pair.
+  order->assign(blocks.begin(), blocks.end());
+  const auto size = [](const std::pair<int, int>& b) { return b.second - b.first; };
+  for (std::size_t i = 1; i < order->size(); ++i) {
+    for (std::size_t j = i; j > 0 && size((*order)[j]) < size((*order)[j - 1]); --j) {
+      std::swap((*order)[j], (*order)[j - 1]);
+    }
+  }
+}
+
+bool BlockHasPartners(const std::vector<Eigen::Vector3d>& mover,
+                      const std::vector<Eigen::Vector3d>& fixed, std::pair<int, int> block,
+                      const Eigen::Vector3d& shift, const ShortImage& image, double reach2) {
+  const auto [begin, end] = block;
+  // Backwards (the verdict does not depend on the order): in the anchor's block the first site is
+  // the matcher's anchor, which has its own partner under every trial origin; checked last, it is
+  // skipped whenever another site fails.
+  for (int j = end - 1; j >= begin; --j) {
+    const Eigen::Vector3d target = fixed[j] + shift;
+    bool found = false;
+    for (int i = begin; i < end && !found; ++i) found = image.Within(mover[i] - target, reach2);
+    if (!found) return false;
+  }
+  return true;
+}
+
 bool AssignSites(const std::vector<Eigen::Vector3d>& mover,
                  const std::vector<Eigen::Vector3d>& fixed,
-                 const std::vector<std::pair<int, int>>& blocks, const Eigen::Vector3d& shift,
+                 const std::vector<std::pair<int, int>>& blocks,
+                 const std::vector<std::pair<int, int>>& check_order, const Eigen::Vector3d& shift,
                  const ShortImage& image, double reach, SiteWorkspace* w, SiteFit* fit) {
   const double reach2 = reach * reach;
   w->chosen.resize(fixed.size());
   // Cheap rejection first, for every block, before any assignment is solved: most trial
   // translations of non-matching pairs fail here.
   // Only existence of a partner within reach matters here, so each search stops at the first.
-  // Smallest blocks first: their sites have the fewest candidate partners, so a wrong cell or
-  // origin usually shows there first (the verdict does not depend on the order).
-  // (More than 8 elements: input order, to keep the scratch space fixed.)
-  std::pair<int, int> order[8];
-  const bool reorder = blocks.size() <= 8;
-  if (reorder) {
-    std::partial_sort_copy(blocks.begin(), blocks.end(), order, order + blocks.size(),
-                           [](const std::pair<int, int>& x, const std::pair<int, int>& y) {
-                             return x.second - x.first < y.second - y.first;
-                           });
-  }
-  for (std::size_t b = 0; b < blocks.size(); ++b) {
-    const auto [begin, end] = reorder ? order[b] : blocks[b];
-    const int nb = end - begin;
-    for (int j = 0; j < nb; ++j) {
-      const Eigen::Vector3d target = fixed[begin + j] + shift;
-      bool found = false;
-      for (int i = 0; i < nb && !found; ++i) found = image.Within(mover[begin + i] - target, reach2);
-      if (!found) return false;
-    }
+  for (const auto& block : check_order) {
+    if (!BlockHasPartners(mover, fixed, block, shift, image, reach2)) return false;
   }
   for (const auto& [begin, end] : blocks) {
     const int nb = end - begin;

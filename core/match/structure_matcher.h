@@ -13,10 +13,14 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
+#include "core/match/lattice_mapping.h"
 #include "core/match/prepared_crystal.h"
+#include "core/match/site_assignment.h"
 #include "core/match/tolerances.h"
 #include "core/structure/crystal.h"
+#include "core/structure/lattice.h"
 
 namespace nucleate::match {
 
@@ -42,5 +46,33 @@ MatchResult MatchStructures(const structure::Crystal& a, const structure::Crysta
 // the verdict.
 MatchResult MatchPrepared(const PreparedCrystal& a, const PreparedCrystal& b,
                           const MatchTolerances& tolerances, bool stop_at_first_match = false);
+
+// Buffers the matcher reuses from pair to pair, so matching a pair does not allocate.
+struct MatcherWorkspace {
+  std::vector<LatticeMapping> mappings;
+  std::vector<Eigen::Vector3d> cosets, mapped;  // the mover's sites in a mapped basis
+  std::vector<char> block_mapped;               // per block: whether `mapped` holds it yet
+  std::vector<std::pair<int, int>> check_order;
+  SiteWorkspace sites;
+};
+
+// What MatchesUnderBases needs of a target beyond its prepared form: computed once per
+// structure rather than once per pair.
+struct TargetShape {
+  MappingTest test;                       // MappingTest(b.lattice, ltol, angle_tol)
+  structure::LatticeParameters parameters;  // ParametersFromMatrix(b.lattice)
+};
+TargetShape ShapeOf(const PreparedCrystal& b, const MatchTolerances& tolerances);
+
+// MatchPrepared(a, b, tolerances, true).match when a's lattice has already been searched, as
+// dedup's lattice screen does (LatticeIndex): `bases` must hold, up to sign, every basis that
+// FindLatticeMappings(a.lattice, b.lattice, ..., 1) returns, each with det +-1 and its lengths and
+// angles as LatticePointsWithin and AngleDegrees compute them; extra bases are filtered out by
+// MappingTest. `shape` must be ShapeOf(b, tolerances). Skips the lattice-point enumeration and
+// mapping search of each pair.
+bool MatchesUnderBases(const PreparedCrystal& a, const PreparedCrystal& b,
+                       const MatchTolerances& tolerances, const TargetShape& shape,
+                       const std::vector<const CandidateBasis*>& bases,
+                       MatcherWorkspace* workspace);
 
 }  // namespace nucleate::match

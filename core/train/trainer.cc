@@ -10,7 +10,7 @@
 
 #include "core/common/error.h"
 #include "core/common/sha256.h"
-#include "core/match/parallel_for.h"
+#include "core/common/parallel_for.h"
 #include "core/model/bundle/bundle_file.h"
 #include "core/model/denoiser.h"
 #include "core/model/diffusion.h"
@@ -91,7 +91,7 @@ double BatchGradient(const Run& run, const std::vector<float>& params,
   const std::size_t count = MicroBatches(cells.size(), o.micro_batch);
   std::vector<std::vector<float>> grads(count);
   std::vector<double> losses(count, 0.0);
-  match::ParallelFor(count, run.threads, [&](std::size_t m) {
+  ParallelFor(count, run.threads, [&](std::size_t m) {
     const std::size_t begin = m * o.micro_batch;
     const std::size_t end = std::min(cells.size(), begin + o.micro_batch);
     MicroBatch mb = Prepare(run, run.set.train, cells, begin, end, o.dropout, step);
@@ -124,7 +124,7 @@ double ValidationLoss(const Run& run, const std::vector<float>& params) {
   const std::size_t count = MicroBatches(cells.size(), micro);
   std::vector<double> losses(count, 0.0);
   const ConditionDropout none{0.0, 0.0};
-  match::ParallelFor(count, run.threads, [&](std::size_t m) {
+  ParallelFor(count, run.threads, [&](std::size_t m) {
     const std::size_t begin = m * micro, end = std::min(cells.size(), begin + micro);
     MicroBatch mb = Prepare(run, pool, cells, begin, end, none, kValidationStep);
     model::DenoiserOutput<float> out, d;

@@ -91,9 +91,9 @@ TEST(LatticeIndex, QueryReturnsExactlyTheMappableTargetsAtOrAboveMinId) {
 
 TEST(BoxTree, QueryFindsExactlyThePointsInsideTheOpenBox) {
   Uniform u(5);
-  BoxTree tree;
-  std::vector<BoxTree::Coordinates> points;
   const BoxTree::Coordinates half = {0.1, 0.2, 0.15, 0.3, 0.1, 0.25};
+  BoxTree tree(half);
+  std::vector<BoxTree::Coordinates> points;
   // 1000 points: the buffer and trees of several sizes all hold some.
   for (int id = 0; id < 1000; ++id) {
     BoxTree::Coordinates x;

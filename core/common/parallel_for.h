@@ -2,6 +2,8 @@
 // (work per index varies a lot: a pairwise match can take microseconds or milliseconds). Every
 // index runs even if some throw; afterwards the exception of the LOWEST failing index is
 // rethrown, so which error a caller sees does not depend on the thread count or timing.
+// A body taking (i, worker) also learns which worker runs it (0 <= worker < max(threads, 1), one
+// index at a time per worker), e.g. to use per-worker buffers.
 #pragma once
 
 #include <algorithm>
@@ -10,9 +12,10 @@
 #include <exception>
 #include <mutex>
 #include <thread>
+#include <type_traits>
 #include <vector>
 
-namespace nucleate::match {
+namespace nucleate {
 
 template <typename Body>
 void ParallelFor(std::size_t n, int threads, const Body& body) {
@@ -20,10 +23,14 @@ void ParallelFor(std::size_t n, int threads, const Body& body) {
   std::mutex error_mutex;
   std::size_t error_index = n;
   std::exception_ptr error;
-  const auto worker = [&]() {
+  const auto worker = [&](int w) {
     for (std::size_t i = next++; i < n; i = next++) {
       try {
-        body(i);
+        if constexpr (std::is_invocable_v<const Body&, std::size_t, int>) {
+          body(i, w);
+        } else {
+          body(i);
+        }
       } catch (...) {
         std::lock_guard<std::mutex> lock(error_mutex);
         if (i < error_index) {
@@ -37,10 +44,10 @@ void ParallelFor(std::size_t n, int threads, const Body& body) {
       std::min<std::size_t>(n > 0 ? n - 1 : 0, static_cast<std::size_t>(std::max(threads, 1) - 1));
   std::vector<std::thread> pool;
   pool.reserve(extra);
-  for (std::size_t t = 0; t < extra; ++t) pool.emplace_back(worker);
-  worker();
+  for (std::size_t t = 0; t < extra; ++t) pool.emplace_back(worker, static_cast<int>(t + 1));
+  worker(0);
   for (auto& t : pool) t.join();
   if (error) std::rethrow_exception(error);
 }
 
-}  // namespace nucleate::match
+}  // namespace nucleate
