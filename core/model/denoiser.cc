@@ -7,19 +7,20 @@ namespace {
 
 using nn::Matrix;
 
-// [left, right] side by side.
+// *out = [left, right] side by side, reusing out's storage.
 template <typename T>
-Matrix<T> Concatenate(const Matrix<T>& left, const Matrix<T>& right) {
-  Matrix<T> out(left.rows(), left.cols() + right.cols());
-  out << left, right;
-  return out;
+void Concatenate(const Matrix<T>& left, const Matrix<T>& right, Matrix<T>* out) {
+  out->resize(left.rows(), left.cols() + right.cols());
+  out->leftCols(left.cols()) = left;
+  out->rightCols(right.cols()) = right;
 }
 
-// [values, 1 - present]: a missing entry contributes its own learned row instead of a value.
+// *out = [values, 1 - present]: a missing entry contributes its own learned row instead of a value.
 template <typename T>
-Matrix<T> WithMissingFlags(const Matrix<T>& values, const Matrix<T>& present) {
-  const Matrix<T> missing = (Matrix<T>::Ones(present.rows(), present.cols()) - present).eval();
-  return Concatenate(values, missing);
+void WithMissingFlags(const Matrix<T>& values, const Matrix<T>& present, Matrix<T>* out) {
+  out->resize(values.rows(), values.cols() + present.cols());
+  out->leftCols(values.cols()) = values;
+  out->rightCols(present.cols()).array() = T(1) - present.array();
 }
 
 }  // namespace
@@ -77,12 +78,14 @@ void Denoiser::Forward(const GraphBatch<T>& b, const T* w, DenoiserOutput<T>* ou
   c.layers.resize(layers_.size());
 
   // Per-cell context: time, noisy lattice and conditions, added to every atom of the cell.
-  Matrix<T> context, term;
+  auto& s = c.scratch;
+  Matrix<T>& context = s.context;
+  Matrix<T>& term = s.term;
   nn::LinearForward(context_in_, w, b.cell_inputs, &c.context_pre);
   nn::SiluForward(c.context_pre, &c.context_hidden);
   nn::LinearForward(context_out_, w, c.context_hidden, &context);
   if (a.condition_composition) {
-    c.composition_input = WithMissingFlags(b.composition, b.composition_present);
+    WithMissingFlags(b.composition, b.composition_present, &c.composition_input);
     nn::LinearForward(composition_, w, c.composition_input, &term);
     context += term;
   }
@@ -95,16 +98,21 @@ void Denoiser::Forward(const GraphBatch<T>& b, const T* w, DenoiserOutput<T>* ou
     context += term;
   }
   if (!a.properties.empty()) {
-    c.property_input = WithMissingFlags(b.properties, b.properties_present);
+    WithMissingFlags(b.properties, b.properties_present, &c.property_input);
     nn::LinearForward(properties_, w, c.property_input, &term);
     context += term;
   }
-  Matrix<T> h;
+  Matrix<T>& h = s.h;
   nn::EmbeddingForward(species_, w, b.tokens, &h);
   nn::SegmentBroadcast(context, b.atom_offsets, &term);
   h += term;
 
-  Matrix<T> send, receive, gathered, geometry, messages, mean_message, update;
+  Matrix<T>& send = s.send;
+  Matrix<T>& receive = s.receive;
+  Matrix<T>& gathered = s.gathered;
+  Matrix<T>& messages = s.messages;
+  Matrix<T>& mean_message = s.mean_message;
+  Matrix<T>& update = s.update;
   for (std::size_t l = 0; l < layers_.size(); ++l) {
     const LayerParameters& p = layers_[l];
     typename DenoiserCache<T>::Layer& k = c.layers[l];
@@ -120,7 +128,7 @@ void Denoiser::Forward(const GraphBatch<T>& b, const T* w, DenoiserOutput<T>* ou
     nn::LinearForward(p.message, w, k.edge_hidden, &k.message_pre);
     nn::SiluForward(k.message_pre, &messages);
     nn::SegmentMean(messages, b.edge_offsets, &mean_message);
-    k.update_input = Concatenate(k.x, mean_message);
+    Concatenate(k.x, mean_message, &k.update_input);
     nn::LinearForward(p.update_in, w, k.update_input, &k.update_pre);
     nn::SiluForward(k.update_pre, &k.update_hidden);
     nn::LinearForward(p.update_out, w, k.update_hidden, &update);
@@ -152,10 +160,15 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
                         const DenoiserOutput<T>& d, T* g) const {
   const Architecture& a = architecture_;
   const int hidden = a.hidden;
-  Matrix<T> dx, dtmp, dhidden, dfinal;
+  auto& s = c.scratch;
+  Matrix<T>& dx = s.dx;
+  Matrix<T>& dtmp = s.dtmp;
+  Matrix<T>& dhidden = s.dhidden;
+  Matrix<T>& dfinal = s.dfinal;
 
   // Heads. The mean removal is a self-adjoint projection: its backward pass is the same.
-  Matrix<T> dscore = d.coordinate_score;
+  Matrix<T>& dscore = s.dscore;
+  dscore = d.coordinate_score;
   nn::RemoveSegmentMean(b.atom_offsets, &dscore);
   nn::LinearBackward(coordinate_out_, w, c.coordinate_hidden, dscore, g, &dhidden);
   nn::SiluBackward(c.coordinate_pre, dhidden, &dtmp);
@@ -163,7 +176,7 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
 
   nn::LinearBackward(lattice_out_, w, c.lattice_hidden, d.lattice_noise, g, &dhidden);
   nn::SiluBackward(c.lattice_pre, dhidden, &dtmp);
-  Matrix<T> dpooled;
+  Matrix<T>& dpooled = s.dpooled;
   nn::LinearBackward(lattice_hidden_, w, c.pooled, dtmp, g, &dpooled);
   nn::SegmentMeanBackward(dpooled, b.atom_offsets, &dx);
   dfinal += dx;
@@ -175,11 +188,19 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
     dfinal += dx;
   }
 
-  Matrix<T> dh;
+  Matrix<T>& dh = s.dh;
   nn::LayerNormBackward(final_norm_, w, c.final_norm, dfinal, g, &dh);
 
-  Matrix<T> dupdate_hidden, dupdate_pre, dupdate_input, dmessages, dmessage_pre, dedge_hidden,
-      dedge_pre, dnode, dlayer_x;
+  Matrix<T>& dupdate_hidden = s.dupdate_hidden;
+  Matrix<T>& dupdate_pre = s.dupdate_pre;
+  Matrix<T>& dupdate_input = s.dupdate_input;
+  Matrix<T>& dmean = s.dmean;
+  Matrix<T>& dmessages = s.dmessages;
+  Matrix<T>& dmessage_pre = s.dmessage_pre;
+  Matrix<T>& dedge_hidden = s.dedge_hidden;
+  Matrix<T>& dedge_pre = s.dedge_pre;
+  Matrix<T>& dnode = s.dnode;
+  Matrix<T>& dlayer_x = s.dlayer_x;
   for (std::size_t l = layers_.size(); l-- > 0;) {
     const LayerParameters& p = layers_[l];
     const typename DenoiserCache<T>::Layer& k = c.layers[l];
@@ -188,7 +209,7 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
     nn::SiluBackward(k.update_pre, dupdate_hidden, &dupdate_pre);
     nn::LinearBackward(p.update_in, w, k.update_input, dupdate_pre, g, &dupdate_input);
     dlayer_x = dupdate_input.leftCols(hidden);
-    const Matrix<T> dmean = dupdate_input.rightCols(hidden);
+    dmean = dupdate_input.rightCols(hidden);
     nn::SegmentMeanBackward(dmean, b.edge_offsets, &dmessages);
     nn::SiluBackward(k.message_pre, dmessages, &dmessage_pre);
     nn::LinearBackward(p.message, w, k.edge_hidden, dmessage_pre, g, &dedge_hidden);
@@ -206,7 +227,7 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
   }
 
   nn::EmbeddingBackward(species_, b.tokens, dh, g);
-  Matrix<T> dcontext;
+  Matrix<T>& dcontext = s.dcontext;
   nn::SegmentBroadcastBackward(dh, b.atom_offsets, &dcontext);
   if (a.condition_composition) {
     nn::LinearBackward<T>(composition_, w, c.composition_input, dcontext, g, nullptr);

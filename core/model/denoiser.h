@@ -33,6 +33,16 @@ struct DenoiserCache {
   nn::Matrix<T> coordinate_pre, coordinate_hidden;
   nn::Matrix<T> pooled, lattice_pre, lattice_hidden;
   nn::Matrix<T> species_pre, species_hidden;
+  // Temporaries of both passes. Kept here so that a cache reused across calls allocates only
+  // when shapes grow: fresh pages for every product cost more than the arithmetic (measured with
+  // bench_denoiser: page faults and zeroing took over half the forward time).
+  struct Scratch {
+    nn::Matrix<T> context, term, h, send, receive, gathered, messages, mean_message, update;
+    nn::Matrix<T> dx, dtmp, dhidden, dfinal, dscore, dpooled, dh, dupdate_hidden, dupdate_pre,
+        dupdate_input, dmean, dmessages, dmessage_pre, dedge_hidden, dedge_pre, dnode, dlayer_x,
+        dcontext;
+  };
+  mutable Scratch scratch;
 };
 
 class Denoiser {
@@ -43,7 +53,8 @@ class Denoiser {
   const Architecture& architecture() const { return architecture_; }
   const nn::ParameterLayout& layout() const { return layout_; }
 
-  // `cache` may be null when no backward pass follows (sampling).
+  // `cache` may be null when no backward pass follows; passing one anyway (and reusing it across
+  // calls) saves the allocations.
   template <typename T>
   void Forward(const GraphBatch<T>& batch, const T* params, DenoiserOutput<T>* out,
                DenoiserCache<T>* cache) const;

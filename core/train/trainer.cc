@@ -30,6 +30,14 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 // scores the same noisy validation cells.
 constexpr std::uint32_t kValidationStep = 0xFFFFFFFFu;
 
+// Buffers kept across steps so a step allocates nothing once shapes have settled: one network
+// cache per worker thread, one gradient buffer per micro-batch.
+struct Workspace {
+  std::vector<model::DenoiserCache<float>> caches;       // per worker
+  std::vector<model::DenoiserOutput<float>> outputs, gradients;  // per worker
+  std::vector<std::vector<float>> micro_gradients;       // per micro-batch
+};
+
 // Everything one optimiser step needs, fixed for the run.
 struct Run {
   const TrainSettings& settings;
@@ -37,6 +45,7 @@ struct Run {
   const model::Denoiser& net;
   const model::DiffusionProcess& process;
   int threads;
+  Workspace* workspace;
 };
 
 // Noised cells -> batch and targets, for cells[begin, end) of `pool`.
@@ -89,14 +98,17 @@ double BatchGradient(const Run& run, const std::vector<float>& params,
                      std::vector<float>* grad) {
   const OptimisationSettings& o = run.settings.optimisation;
   const std::size_t count = MicroBatches(cells.size(), o.micro_batch);
-  std::vector<std::vector<float>> grads(count);
+  Workspace& ws = *run.workspace;
+  std::vector<std::vector<float>>& grads = ws.micro_gradients;
+  if (grads.size() < count) grads.resize(count);
   std::vector<double> losses(count, 0.0);
-  ParallelFor(count, run.threads, [&](std::size_t m) {
+  ParallelFor(count, run.threads, [&](std::size_t m, int worker) {
     const std::size_t begin = m * o.micro_batch;
     const std::size_t end = std::min(cells.size(), begin + o.micro_batch);
     MicroBatch mb = Prepare(run, run.set.train, cells, begin, end, o.dropout, step);
-    model::DenoiserOutput<float> out, d;
-    model::DenoiserCache<float> cache;
+    model::DenoiserOutput<float>& out = ws.outputs[worker];
+    model::DenoiserOutput<float>& d = ws.gradients[worker];
+    model::DenoiserCache<float>& cache = ws.caches[worker];
     run.net.Forward<float>(mb.batch, params.data(), &out, &cache);
     const LossParts parts = BatchLoss(mb.batch, out, mb.targets, o.loss_weights, &d);
     const double share = double(end - begin) / double(cells.size());
@@ -124,11 +136,13 @@ double ValidationLoss(const Run& run, const std::vector<float>& params) {
   const std::size_t count = MicroBatches(cells.size(), micro);
   std::vector<double> losses(count, 0.0);
   const ConditionDropout none{0.0, 0.0};
-  ParallelFor(count, run.threads, [&](std::size_t m) {
+  Workspace& ws = *run.workspace;
+  ParallelFor(count, run.threads, [&](std::size_t m, int worker) {
     const std::size_t begin = m * micro, end = std::min(cells.size(), begin + micro);
     MicroBatch mb = Prepare(run, pool, cells, begin, end, none, kValidationStep);
-    model::DenoiserOutput<float> out, d;
-    run.net.Forward<float>(mb.batch, params.data(), &out, nullptr);
+    model::DenoiserOutput<float>& out = ws.outputs[worker];
+    model::DenoiserOutput<float>& d = ws.gradients[worker];
+    run.net.Forward<float>(mb.batch, params.data(), &out, &ws.caches[worker]);
     const LossParts parts =
         BatchLoss(mb.batch, out, mb.targets, run.settings.optimisation.loss_weights, &d);
     losses[m] = parts.total() * double(end - begin) / double(cells.size());
@@ -234,7 +248,11 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   const model::DiffusionProcess process(s.diffusion, set.architecture.species_tokens());
   const int threads = o.threads > 0 ? o.threads
                                     : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  const Run run{s, set, net, process, threads};
+  Workspace workspace;
+  workspace.caches.resize(threads);
+  workspace.outputs.resize(threads);
+  workspace.gradients.resize(threads);
+  const Run run{s, set, net, process, threads, &workspace};
   result.parameters = static_cast<std::int64_t>(net.layout().size());
 
   std::vector<float> params = model::nn::Initialise<float>(net.layout(), o.seed);
