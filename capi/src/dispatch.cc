@@ -72,6 +72,7 @@ const std::vector<MethodEntry>& Methods() {
       ConvertMethod(),
       TrainMethod(),
       ModelInfoMethod(),
+      EvaluateMethod(),
   };
   return kMethods;
 }

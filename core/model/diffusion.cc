@@ -39,7 +39,7 @@ ModelSchedules DefaultModelSchedules() {
   return s;
 }
 
-DiffusionProcess::DiffusionProcess(const ModelSchedules& s, int species_tokens)
+DiffusionProcess::DiffusionProcess(const ModelSchedules& s, const Architecture& architecture)
     : schedules_(s) {
   const schedule::ScheduleLimits limits;
   if (s.lattice.respaced_steps != 0) {
@@ -49,10 +49,16 @@ DiffusionProcess::DiffusionProcess(const ModelSchedules& s, int species_tokens)
   lattice_ = WithinPart("lattice", [&] { return schedule::BuildVarianceSchedule(s.lattice, limits); });
   sigma_ = WithinPart("coordinates",
                       [&] { return schedule::BuildSigmaSchedule(s.coordinates, limits); });
-  schedule::TransitionParams species = s.species;
-  species.num_classes = std::max(2, species_tokens);
-  species_ = WithinPart("species", [&] { return schedule::BuildTransitionSchedule(species, limits); });
   steps_ = static_cast<long long>(lattice_.size());
+  if (architecture.species_mode == SpeciesMode::kAbsorbing) {
+    schedule::TransitionParams species = s.species;
+    species.num_classes = architecture.species_tokens();
+    species_ = WithinPart("species",
+                          [&] { return schedule::BuildTransitionSchedule(species, limits); });
+  } else {
+    species_.resize(steps_);
+    for (long long t = 0; t < steps_; ++t) species_[t] = {t + 1, 0.0, 1.0};
+  }
   if (static_cast<long long>(sigma_.size()) != steps_) {
     throw InvalidArgument("coordinates.steps", "must equal lattice.steps (" +
                                                    std::to_string(steps_) + ")");

@@ -17,8 +17,9 @@ class DiffusionProcess {
  public:
   // InvalidArgument naming "lattice.<field>", "coordinates.<field>" or "species.<field>"; the three
   // schedules must have the same number of steps ("coordinates.steps" otherwise).
-  // species_tokens: the architecture's species_tokens() (elements + mask); used in absorbing mode.
-  DiffusionProcess(const ModelSchedules& schedules, int species_tokens);
+  // The species schedule is used only by absorbing models (with species_tokens() classes); for a
+  // composition-given model every species is always kept.
+  DiffusionProcess(const ModelSchedules& schedules, const Architecture& architecture);
 
   long long steps() const { return steps_; }
   const ModelSchedules& schedules() const { return schedules_; }

@@ -245,7 +245,7 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
       std::to_string(result.test_count) + " test");
 
   const model::Denoiser net(set.architecture);
-  const model::DiffusionProcess process(s.diffusion, set.architecture.species_tokens());
+  const model::DiffusionProcess process(s.diffusion, set.architecture);
   const int threads = o.threads > 0 ? o.threads
                                     : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
   Workspace workspace;

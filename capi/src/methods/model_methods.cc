@@ -1,14 +1,18 @@
 #include "methods/model_methods.h"
 
 #include <filesystem>
+#include <map>
 #include <string>
 
 #include "core/common/error.h"
 #include "core/model/bundle/bundle_file.h"
 #include "core/model/bundle/bundle_messages.h"
 #include "core/model/bundle/model_bundle.h"
+#include "core/model/evaluate.h"
 #include "core/train/train_config.h"
 #include "core/train/trainer.h"
+#include "methods/structure_inputs.h"
+#include "nucleate/v1/evaluate.pb.h"
 #include "nucleate/v1/model.pb.h"
 #include "nucleate/v1/train.pb.h"
 
@@ -74,10 +78,58 @@ void HandleModelInfo(const v1::ModelInfoRequest& request, v1::ModelInfoReply* re
   if (!error) reply->set_file_bytes(size);
 }
 
+void HandleEvaluate(const v1::EvaluateRequest& request, v1::EvaluateReply* reply,
+                    const CallContext&) {
+  if (request.model_path().empty()) {
+    throw InvalidArgument("model_path", "required: the model file to evaluate");
+  }
+  const InputLimits limits = FromMessage(request.limits());
+  if (request.cells_size() > limits.max_structures) {
+    throw LimitExceeded("cells", std::to_string(request.cells_size()) + " cells; limits.max_structures is " +
+                                     std::to_string(limits.max_structures));
+  }
+  std::vector<model::EvaluationInput> inputs;
+  for (int i = 0; i < request.cells_size(); ++i) {
+    const v1::EvaluateCell& m = request.cells(i);
+    const std::string field = "cells[" + std::to_string(i) + "]";
+    model::EvaluationInput in;
+    try {
+      in.cell = FromMessage(m.structure(), limits.structure);
+    } catch (const Error& e) {
+      throw e.WithinField(field + ".structure");
+    }
+    in.step = m.step();
+    in.masked.assign(m.masked().begin(), m.masked().end());
+    in.composition_known = m.composition_known();
+    in.crystal_system = m.crystal_system();
+    in.space_group = m.space_group();
+    // Sorted by name, so the order never depends on the map's iteration order.
+    std::map<std::string, double> sorted(m.properties().begin(), m.properties().end());
+    in.properties.assign(sorted.begin(), sorted.end());
+    inputs.push_back(std::move(in));
+  }
+  const model::ModelBundle bundle = model::LoadModelBundle(request.model_path());
+  for (const model::EvaluationOutput& out : model::EvaluateModel(bundle, inputs)) {
+    v1::EvaluateOutput* o = reply->add_outputs();
+    for (int i = 0; i < out.coordinate_score.rows(); ++i) {
+      for (int k = 0; k < 3; ++k) o->add_coordinate_score(out.coordinate_score(i, k));
+    }
+    for (int k = 0; k < 6; ++k) o->add_lattice_noise(out.lattice_noise[k]);
+    for (int i = 0; i < out.species_logits.rows(); ++i) {
+      for (int k = 0; k < out.species_logits.cols(); ++k) o->add_species_logits(out.species_logits(i, k));
+    }
+  }
+  for (int z : bundle.architecture.elements) reply->add_elements(z);
+}
+
 }  // namespace
 
 MethodEntry TrainMethod() {
   return MakeMethod<v1::TrainRequest, v1::TrainReply, &HandleTrain>("Train");
+}
+
+MethodEntry EvaluateMethod() {
+  return MakeMethod<v1::EvaluateRequest, v1::EvaluateReply, &HandleEvaluate>("Evaluate");
 }
 
 MethodEntry ModelInfoMethod() {

@@ -1,4 +1,5 @@
-// Train (a whole training run from a YAML configuration) and ModelInfo (what a model file holds).
+// Train (a whole training run from a YAML configuration), ModelInfo (what a model file holds) and
+// Evaluate (one denoiser evaluation on given noisy cells).
 #pragma once
 
 #include "dispatch.h"
@@ -7,5 +8,6 @@ namespace nucleate::capi {
 
 MethodEntry TrainMethod();
 MethodEntry ModelInfoMethod();
+MethodEntry EvaluateMethod();
 
 }  // namespace nucleate::capi

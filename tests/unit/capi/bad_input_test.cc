@@ -90,7 +90,13 @@ INSTANTIATE_TEST_SUITE_P(
         BadCase{"ModelInfo", R"({"path":"/nonexistent/model.nucleate"})", NUCLEATE_ERROR_IO,
                 "/nonexistent/model.nucleate"},
         BadCase{"ModelInfo", R"({"path":"/etc/passwd"})", NUCLEATE_ERROR_INVALID_ARGUMENT,
-                "/etc/passwd"}));
+                "/etc/passwd"},
+        BadCase{"Evaluate", "{}", NUCLEATE_ERROR_INVALID_ARGUMENT, "model_path"},
+        BadCase{"Evaluate", R"({"model_path":"/nonexistent/model.nucleate"})", NUCLEATE_ERROR_IO,
+                "/nonexistent/model.nucleate"},
+        BadCase{"Evaluate",
+                R"({"model_path":"m","cells":[{"structure":{"lattice":[1,0,0],"atomic_numbers":[8],"frac_coords":[0,0,0]}}]})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "cells[0].structure"}));
 
 TEST(BadArguments, NullPointersAndBadEncodingsAreRefused) {
   void* reply = nullptr;

@@ -10,6 +10,7 @@
 
 #include "core/common/error.h"
 #include "core/model/bundle/bundle_file.h"
+#include "core/model/evaluate.h"
 #include "core/structure/crystal.h"
 #include "core/structure/io/cif_writer.h"
 #include "core/train/train_config.h"
@@ -132,6 +133,39 @@ TEST_F(TrainerTest, CheckpointOfAnotherRunIsRefused) {
   } catch (const Error& e) {
     EXPECT_NE(std::string(e.what()).find("different run"), std::string::npos) << e.what();
   }
+}
+
+TEST_F(TrainerTest, EvaluateOnATrainedModel) {
+  Train(Settings(1, false));
+  const model::ModelBundle bundle = model::LoadModelBundle((dir_ / "model.nucleate").string());
+  model::EvaluationInput in;
+  in.cell = RockSalt(11, 17, 5.64);
+  in.step = 10;
+  const auto out = model::EvaluateModel(bundle, {in, in});
+  ASSERT_EQ(out.size(), 2u);
+  ASSERT_EQ(out[0].coordinate_score.rows(), 8);
+  EXPECT_TRUE(out[0].coordinate_score.allFinite());
+  EXPECT_TRUE(out[0].lattice_noise.allFinite());
+  EXPECT_EQ(out[0].species_logits.size(), 0);  // composition-given model
+  // A common translation carries no information: the score is mean-free per cell.
+  EXPECT_LT(out[0].coordinate_score.colwise().sum().cwiseAbs().maxCoeff(),
+            1e-5 * std::max(1.0, out[0].coordinate_score.cwiseAbs().maxCoeff()));
+  // Cells in one call do not see each other: equal cells, equal predictions.
+  EXPECT_EQ(out[0].coordinate_score, out[1].coordinate_score);
+  EXPECT_EQ(out[0].lattice_noise, out[1].lattice_noise);
+
+  model::EvaluationInput foreign = in;
+  foreign.cell.numbers[3] = 26;  // iron: not in the training vocabulary
+  try {
+    model::EvaluateModel(bundle, {in, foreign});
+    FAIL() << "evaluated an element the model never saw";
+  } catch (const Error& e) {
+    EXPECT_NE(std::string(e.what()).find("cells[1].cell.atomic_numbers[3]"), std::string::npos)
+        << e.what();
+  }
+  model::EvaluationInput late = in;
+  late.step = 51;  // the schedules have 50 steps
+  EXPECT_THROW(model::EvaluateModel(bundle, {late}), Error);
 }
 
 }  // namespace
