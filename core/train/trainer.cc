@@ -282,6 +282,12 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   const std::int64_t steps_per_epoch =
       static_cast<std::int64_t>(MicroBatches(set.train.size(), o.batch_size));
   const std::int64_t total_steps = steps_per_epoch * o.epochs;
+  if (o.warmup_steps > total_steps) {
+    throw InvalidArgument("training.warmup_steps",
+                          std::to_string(o.warmup_steps) + " exceeds the run's " +
+                              std::to_string(total_steps) + " optimiser steps (" +
+                              std::to_string(steps_per_epoch) + " per epoch)");
+  }
   say("model: " + std::to_string(result.parameters) + " parameters; " +
       std::to_string(steps_per_epoch) + " steps per epoch, " + std::to_string(total_steps) +
       " in all; " + std::to_string(threads) + " threads");
