@@ -37,6 +37,7 @@ module nucleate
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
   public :: nucleate_check_structure, nucleate_match_structures, nucleate_dedup_structures
   public :: nucleate_read_structures
+  public :: nucleate_train, nucleate_model_parameters, nucleate_evaluate
 
   interface
     function c_version() bind(C, name="nucleate_version") result(text)
@@ -540,5 +541,128 @@ contains
       if (code >= iachar('a') .and. code <= iachar('z')) out(i:i) = achar(code - 32)
     end do
   end function
+
+  ! A JSON string literal of `text`: quotes, backslashes and control characters escaped.
+  function json_string(text) result(out)
+    character(len=*), intent(in) :: text
+    character(len=:), allocatable :: out
+    character(len=*), parameter :: hex = '0123456789abcdef'
+    integer :: i, code
+    out = '"'
+    do i = 1, len(text)
+      code = iachar(text(i:i))
+      select case (code)
+      case (34)
+        out = out // '\"'
+      case (92)
+        out = out // '\\'
+      case (10)
+        out = out // '\n'
+      case (0:9, 11:31)
+        out = out // '\u00' // hex(code / 16 + 1:code / 16 + 1) // hex(mod(code, 16) + 1:mod(code, 16) + 1)
+      case default
+        out = out // text(i:i)
+      end select
+    end do
+    out = out // '"'
+  end function
+
+  !> Trains a denoiser from the YAML configuration file at `config_path` (keys documented in
+  !> core/train/CONFIG.md; relative paths in it are taken from the file's directory). On return
+  !> the optimiser steps and epochs done and the last training loss. The model is written where
+  !> the configuration says. A long call: it returns when training ends.
+  subroutine nucleate_train(config_path, steps_done, epochs_done, last_loss, status, message)
+    character(len=*), intent(in) :: config_path
+    integer, intent(out) :: steps_done, epochs_done
+    real(c_double), intent(out) :: last_loss
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: text, directory, reply
+    real(c_double) :: value
+    integer :: unit, size_bytes, io, slash
+    steps_done = 0
+    epochs_done = 0
+    last_loss = 0
+    open(newunit=unit, file=config_path, access='stream', form='unformatted', status='old', &
+         action='read', iostat=io)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = 'nucleate: cannot open ' // config_path
+      return
+    end if
+    inquire(unit=unit, size=size_bytes)
+    allocate(character(len=max(size_bytes, 0)) :: text)
+    if (size_bytes > 0) read(unit, iostat=io) text
+    close(unit)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = 'nucleate: cannot read ' // config_path
+      return
+    end if
+    slash = index(config_path, '/', back=.true.)
+    directory = '.'
+    if (slash > 0) directory = config_path(1:slash - 1)
+    call nucleate_call_json('Train', '{"config_yaml":' // json_string(text) // &
+                            ',"config_directory":' // json_string(directory) // &
+                            ',"config_name":' // json_string(config_path) // '}', reply, status, &
+                            message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('Train', reply, 'steps_done', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    steps_done = nint(value)
+    call reply_real('Train', reply, 'epochs_done', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    epochs_done = nint(value)
+    call reply_real('Train', reply, 'last_loss', last_loss, status, message)
+  end subroutine
+
+  !> The number of trained parameters of the model file at `path`, after the file has been fully
+  !> checked (format version, sizes, checksum): a cheap way to validate a model before a job.
+  subroutine nucleate_model_parameters(path, parameters, status, message)
+    character(len=*), intent(in) :: path
+    integer, intent(out) :: parameters
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double) :: value
+    parameters = 0
+    call nucleate_call_json('ModelInfo', '{"path":' // json_string(path) // '}', reply, status, &
+                            message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('ModelInfo', reply, 'parameters', value, status, message)
+    if (status == NUCLEATE_OK) parameters = nint(value)
+  end subroutine
+
+  !> One denoiser evaluation of the model at `model_path` on one noisy cell at step `step`
+  !> (1..T), species given: the predicted fractional-coordinate score (3 x atoms, mean-free) and
+  !> the predicted noise of the 6 lattice features.
+  subroutine nucleate_evaluate(model_path, lattice, frac, numbers, step, score, lattice_noise, &
+                               status, message)
+    character(len=*), intent(in) :: model_path
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:), step
+    real(c_double), intent(out) :: score(3, size(numbers)), lattice_noise(6)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double), allocatable :: values(:)
+    score = 0
+    lattice_noise = 0
+    call nucleate_call_json('Evaluate', '{"model_path":' // json_string(model_path) // &
+                            ',"cells":[{"structure":' // structure_json(lattice, frac, numbers) // &
+                            ',"step":' // json_int(step) // '}]}', reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Evaluate', reply, 'outputs.coordinate_score', values, status, message)
+    if (status /= NUCLEATE_OK) return
+    if (size(values) /= 3 * size(numbers)) then
+      status = NUCLEATE_ERROR_INTERNAL
+      message = 'nucleate: Evaluate returned a score of the wrong size'
+      return
+    end if
+    score = reshape(values, [3, size(numbers)])
+    call nucleate_reply_reals('Evaluate', reply, 'outputs.lattice_noise', values, status, message)
+    if (status /= NUCLEATE_OK) return
+    lattice_noise = values(1:6)
+  end subroutine
 
 end module nucleate
