@@ -5,11 +5,10 @@
 #include "core/common/error.h"
 
 namespace nucleate::model {
-namespace {
 
 namespace sc = nucleate::schedule;
 
-sc::VarianceKind FromMessage(v1::VarianceKind kind) {
+sc::VarianceKind VarianceKindFromMessage(v1::VarianceKind kind, const std::string& field) {
   switch (kind) {
     case v1::VARIANCE_KIND_UNSPECIFIED:
     case v1::VARIANCE_KIND_LINEAR:
@@ -23,8 +22,10 @@ sc::VarianceKind FromMessage(v1::VarianceKind kind) {
     default:
       break;
   }
-  throw InvalidArgument("kind", "unknown variance kind " + std::to_string(kind));
+  throw InvalidArgument(field, "unknown variance kind " + std::to_string(kind));
 }
+
+namespace {
 
 v1::VarianceKind ToMessage(sc::VarianceKind kind) {
   switch (kind) {
@@ -44,7 +45,7 @@ v1::VarianceKind ToMessage(sc::VarianceKind kind) {
 
 sc::VarianceParams FromMessage(const v1::VarianceSchedule& m) {
   sc::VarianceParams p;
-  p.kind = FromMessage(m.kind());
+  p.kind = VarianceKindFromMessage(m.kind(), "kind");
   if (m.has_steps()) p.steps = m.steps();
   if (m.has_beta_start()) p.beta_start = m.beta_start();
   if (m.has_beta_end()) p.beta_end = m.beta_end();
@@ -78,19 +79,22 @@ void ToMessage(const sc::VarianceParams& p, v1::VarianceSchedule* m) {
   m->set_respaced_steps(p.respaced_steps);
 }
 
-sc::SigmaParams FromMessage(const v1::SigmaSchedule& m) {
-  sc::SigmaParams p;
-  switch (m.kind()) {
+sc::SigmaKind SigmaKindFromMessage(v1::SigmaKind kind, const std::string& field) {
+  switch (kind) {
     case v1::SIGMA_KIND_UNSPECIFIED:
     case v1::SIGMA_KIND_GEOMETRIC:
-      p.kind = sc::SigmaKind::kGeometric;
-      break;
+      return sc::SigmaKind::kGeometric;
     case v1::SIGMA_KIND_KARRAS:
-      p.kind = sc::SigmaKind::kKarras;
-      break;
+      return sc::SigmaKind::kKarras;
     default:
-      throw InvalidArgument("kind", "unknown sigma kind " + std::to_string(m.kind()));
+      break;
   }
+  throw InvalidArgument(field, "unknown sigma kind " + std::to_string(kind));
+}
+
+sc::SigmaParams FromMessage(const v1::SigmaSchedule& m) {
+  sc::SigmaParams p;
+  p.kind = SigmaKindFromMessage(m.kind(), "kind");
   if (m.has_steps()) p.steps = m.steps();
   if (m.has_sigma_min()) p.sigma_min = m.sigma_min();
   if (m.has_sigma_max()) p.sigma_max = m.sigma_max();
