@@ -9,6 +9,7 @@
 #include "methods/convert_method.h"
 #include "methods/match_methods.h"
 #include "methods/model_methods.h"
+#include "methods/sample_method.h"
 #include "methods/schedule_methods.h"
 #include "methods/version_method.h"
 #include "nucleate/v1/error.pb.h"
@@ -73,6 +74,7 @@ const std::vector<MethodEntry>& Methods() {
       TrainMethod(),
       ModelInfoMethod(),
       EvaluateMethod(),
+      SampleMethod(),
   };
   return kMethods;
 }

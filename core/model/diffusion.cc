@@ -66,11 +66,19 @@ DiffusionProcess::DiffusionProcess(const ModelSchedules& s, const Architecture& 
   if (static_cast<long long>(species_.size()) != steps_) {
     throw InvalidArgument("species.steps", "must equal lattice.steps (" + std::to_string(steps_) + ")");
   }
-  score_scale_.reserve(steps_);
-  for (const auto& level : sigma_) {
-    score_scale_.push_back(
-        std::sqrt(WrappedNormalScoreSecondMoment(level.sigma, level.truncation.images)));
+  score_scale_ = std::make_unique<std::atomic<double>[]>(static_cast<std::size_t>(steps_));
+  for (long long t = 0; t < steps_; ++t) score_scale_[t].store(std::nan(""));
+}
+
+double DiffusionProcess::score_scale(long long t) const {
+  std::atomic<double>& slot = score_scale_[t - 1];
+  double value = slot.load(std::memory_order_relaxed);
+  if (std::isnan(value)) {
+    const schedule::SigmaLevel& level = sigma_[t - 1];
+    value = std::sqrt(WrappedNormalScoreSecondMoment(level.sigma, level.truncation.images));
+    slot.store(value, std::memory_order_relaxed);
   }
+  return value;
 }
 
 double WrappedNormalScoreSecondMoment(double sigma, int images) {

@@ -3,6 +3,8 @@
 // from them; samplers walk them backwards.
 #pragma once
 
+#include <atomic>
+#include <memory>
 #include <vector>
 
 #include "core/model/bundle/model_bundle.h"
@@ -28,8 +30,10 @@ class DiffusionProcess {
   double sigma(long long t) const { return sigma_[t - 1].sigma; }
   int images(long long t) const { return sigma_[t - 1].truncation.images; }
   // sqrt(E[s^2]) of the wrapped-normal score s at sigma_t, per coordinate: the network predicts
-  // s / score_scale(t).
-  double score_scale(long long t) const { return score_scale_[t - 1]; }
+  // s / score_scale(t). Computed by quadrature on first use of each step and kept (a sampler over
+  // 50 respaced steps needs 50 of the 1000): safe to call from several threads, and the value
+  // never depends on which thread computed it.
+  double score_scale(long long t) const;
   // Probability that an atom's species is still unmasked at step t (absorbing kernel).
   double species_kept(long long t) const { return species_[t - 1].alpha_bar; }
 
@@ -39,7 +43,8 @@ class DiffusionProcess {
   std::vector<schedule::VarianceStep> lattice_;
   std::vector<schedule::SigmaLevel> sigma_;
   std::vector<schedule::TransitionStep> species_;
-  std::vector<double> score_scale_;
+  // NaN until computed; std::atomic so concurrent first uses are benign (both store one value).
+  std::unique_ptr<std::atomic<double>[]> score_scale_;
 };
 
 // E[s(x)^2] for x drawn from the wrapped normal of `sigma` (s its score), by composite Simpson

@@ -23,6 +23,8 @@ enum class Purpose : std::uint32_t {
   kSamplePrior = 9,      // sampling: initial noise
   kSampleStep = 10,      // sampling: noise injected at each step
   kSampleSpecies = 11,   // sampling: species draws
+  kSampleCorrector = 12,   // sampling: noise of Langevin corrector steps
+  kSampleConstraint = 13,  // sampling: noise of the known parts (replacement at every level)
 };
 
 class RandomStream {

@@ -1,7 +1,9 @@
 #include "core/structure/composition.h"
 
 #include <algorithm>
+#include <cctype>
 #include <numeric>
+#include <string_view>
 #include <utility>
 
 #include "core/common/error.h"
@@ -66,6 +68,97 @@ std::string ReducedHillFormula(const std::vector<int>& numbers) {
   long long divisor = 0;
   for (const auto& entry : counts) divisor = std::gcd(divisor, entry.second);
   return Formula(counts, std::max(divisor, 1LL), "");
+}
+
+namespace {
+
+// Recursive descent over: formula = { group }, group = (symbol | "(" formula ")") [count].
+class FormulaReader {
+ public:
+  FormulaReader(const std::string& text, const std::string& field) : s_(text), field_(field) {}
+
+  std::vector<std::pair<int, long long>> Read() {
+    auto terms = Sequence(0);
+    if (pos_ < s_.size()) Fail("unexpected ')'");
+    if (terms.empty()) Fail("no elements");
+    return terms;
+  }
+
+ private:
+  [[noreturn]] void Fail(const std::string& what) const {
+    throw InvalidArgument(field_, what + " at character " + std::to_string(pos_ + 1) + " of \"" +
+                                      s_ + "\"");
+  }
+  void SkipSpaces() {
+    while (pos_ < s_.size() && s_[pos_] == ' ') ++pos_;
+  }
+  long long Count() {
+    SkipSpaces();
+    if (pos_ >= s_.size() || !std::isdigit(static_cast<unsigned char>(s_[pos_]))) return 1;
+    long long n = 0;
+    while (pos_ < s_.size() && std::isdigit(static_cast<unsigned char>(s_[pos_]))) {
+      n = 10 * n + (s_[pos_++] - '0');
+      if (n > 1000000) Fail("count above 1000000");
+    }
+    if (n == 0) Fail("count 0");
+    return n;
+  }
+  std::vector<std::pair<int, long long>> Sequence(int depth) {
+    if (depth > 8) Fail("parentheses nested too deeply");
+    std::vector<std::pair<int, long long>> terms;
+    const auto add = [&](int z, long long n) {
+      for (auto& t : terms) {
+        if (t.first == z) {
+          t.second += n;
+          if (t.second > 1000000) Fail("count above 1000000");
+          return;
+        }
+      }
+      terms.emplace_back(z, n);
+    };
+    for (SkipSpaces(); pos_ < s_.size(); SkipSpaces()) {
+      const char c = s_[pos_];
+      if (c == ')') {
+        if (depth == 0) Fail("unexpected ')'");
+        return terms;
+      }
+      if (c == '(') {
+        ++pos_;
+        auto inner = Sequence(depth + 1);
+        if (pos_ >= s_.size() || s_[pos_] != ')') Fail("missing ')'");
+        ++pos_;
+        const long long n = Count();
+        if (inner.empty()) Fail("empty parentheses");
+        for (const auto& [z, m] : inner) {
+          if (m * n > 1000000) Fail("count above 1000000");
+          add(z, m * n);
+        }
+        continue;
+      }
+      if (!std::isupper(static_cast<unsigned char>(c))) Fail("expected an element symbol");
+      std::size_t end = pos_ + 1;
+      while (end < s_.size() && std::islower(static_cast<unsigned char>(s_[end]))) ++end;
+      const int z = elements::AtomicNumber(std::string_view(s_).substr(pos_, end - pos_));
+      if (z == 0) Fail("unknown element '" + s_.substr(pos_, end - pos_) + "'");
+      pos_ = end;
+      add(z, Count());
+    }
+    return terms;
+  }
+
+  const std::string& s_;
+  const std::string& field_;
+  std::size_t pos_ = 0;
+};
+
+}  // namespace
+
+std::vector<std::pair<int, int>> ParseFormula(const std::string& formula, const std::string& field) {
+  std::vector<std::pair<int, int>> out;
+  for (const auto& [z, n] : FormulaReader(formula, field).Read()) {
+    out.emplace_back(z, static_cast<int>(n));
+  }
+  return out;
 }
 
 }  // namespace nucleate::structure

@@ -3,6 +3,7 @@
 
 #include <map>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace nucleate::structure {
@@ -20,5 +21,12 @@ std::string HillFormula(const std::map<int, long long>& counts, const std::strin
 
 // The same with counts divided by their greatest common divisor: "O2Ti" for a 6-atom TiO2 cell.
 std::string ReducedHillFormula(const std::vector<int>& numbers);
+
+// A written formula read into (atomic number, count) in order of first appearance, repeated
+// elements merged: "SrTiO3", "Li2O", "Ca3(PO4)2" (one or more levels of parentheses), spaces
+// ignored ("Sr Ti O3"). InvalidArgument naming `field` and the character position for an unknown
+// symbol, a zero or missing count after ")", unbalanced parentheses, or counts above 10^6.
+std::vector<std::pair<int, int>> ParseFormula(const std::string& formula,
+                                              const std::string& field = "formula");
 
 }  // namespace nucleate::structure

@@ -11,7 +11,6 @@
 #include "nucleate/v1/match.pb.h"
 
 namespace nucleate::capi {
-namespace {
 
 match::MatchTolerances TolerancesFromMessage(const v1::MatchTolerances& m) {
   match::MatchTolerances t;  // core's defaults are the only defaults
@@ -25,23 +24,14 @@ match::MatchTolerances TolerancesFromMessage(const v1::MatchTolerances& m) {
   return t;
 }
 
-// The one structure an input of Match must hold.
-structure::Crystal OneStructure(const v1::StructureInput& input, const InputLimits& limits,
-                                const char* side) {
-  std::vector<InputStructure> read = ReadInput(input, limits, side);
-  if (read.size() != 1) {
-    throw InvalidArgument(side, "holds " + std::to_string(read.size()) +
-                                    " structures; Match compares one with one");
-  }
-  if (read[0].error) throw *read[0].error;
-  return std::move(*read[0].crystal);
-}
+namespace {
+
 
 void HandleMatch(const v1::MatchRequest& request, v1::MatchReply* reply, const CallContext&) {
   const InputLimits limits = FromMessage(request.limits());
   const match::MatchTolerances tolerances = TolerancesFromMessage(request.tolerances());
-  const structure::Crystal a = OneStructure(request.a(), limits, "a");
-  const structure::Crystal b = OneStructure(request.b(), limits, "b");
+  const structure::Crystal a = ReadOneStructure(request.a(), limits, "a");
+  const structure::Crystal b = ReadOneStructure(request.b(), limits, "b");
   const match::MatchResult result = match::MatchStructures(a, b, tolerances);
   reply->set_match(result.match);
   reply->set_rms(result.rms);

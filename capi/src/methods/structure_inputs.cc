@@ -146,6 +146,17 @@ std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const Inp
   return {{where, std::nullopt, InvalidArgument(where, "set either structure or file"), {}}};
 }
 
+structure::Crystal ReadOneStructure(const v1::StructureInput& input, const InputLimits& limits,
+                                   const std::string& field) {
+  std::vector<InputStructure> read = ReadInput(input, limits, field);
+  if (read.size() != 1) {
+    throw InvalidArgument(field, "holds " + std::to_string(read.size()) +
+                                     " structures; exactly one is needed here");
+  }
+  if (read[0].error) throw *read[0].error;
+  return std::move(*read[0].crystal);
+}
+
 std::vector<InputStructure> ReadInputs(
     const google::protobuf::RepeatedPtrField<v1::StructureInput>& inputs,
     const InputLimits& limits, const std::string& field) {

@@ -45,6 +45,11 @@ struct InputStructure {
 std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const InputLimits& limits,
                                       const std::string& where);
 
+// The one structure an input must hold (a file with one block or frame); InvalidArgument naming
+// `field` otherwise, or the structure's own error.
+structure::Crystal ReadOneStructure(const v1::StructureInput& input, const InputLimits& limits,
+                                   const std::string& field);
+
 // Every input of a repeated field named `field` ("inputs", "references"), in order.
 // LimitExceeded (a refusal of the whole request) only when there are more structures than
 // limits.max_structures.
