@@ -112,7 +112,8 @@ SampleSetup::SampleSetup(const model::ModelBundle& bundle, const std::vector<Rev
         per_unit += t.formula[k].second;
       }
       if (t.min_units < 1 || t.max_units < t.min_units) {
-        throw InvalidArgument("composition.min_units", "needs 1 <= min_units <= max_units");
+        throw InvalidArgument("composition.min_formula_units",
+                              "needs 1 <= min_formula_units <= max_formula_units");
       }
       CheckAtoms(per_unit * t.max_units, limits, "composition");
       max_atoms_ = static_cast<int>(per_unit * t.max_units);

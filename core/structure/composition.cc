@@ -85,22 +85,25 @@ class FormulaReader {
   }
 
  private:
-  [[noreturn]] void Fail(const std::string& what) const {
-    throw InvalidArgument(field_, what + " at character " + std::to_string(pos_ + 1) + " of \"" +
+  [[noreturn]] void Fail(const std::string& what) const { FailAt(pos_, what); }
+  [[noreturn]] void FailAt(std::size_t at, const std::string& what) const {
+    throw InvalidArgument(field_, what + " at character " + std::to_string(at + 1) + " of \"" +
                                       s_ + "\"");
   }
   void SkipSpaces() {
     while (pos_ < s_.size() && s_[pos_] == ' ') ++pos_;
   }
+  // Errors point at the first digit of the count.
   long long Count() {
     SkipSpaces();
     if (pos_ >= s_.size() || !std::isdigit(static_cast<unsigned char>(s_[pos_]))) return 1;
+    const std::size_t start = pos_;
     long long n = 0;
     while (pos_ < s_.size() && std::isdigit(static_cast<unsigned char>(s_[pos_]))) {
       n = 10 * n + (s_[pos_++] - '0');
-      if (n > 1000000) Fail("count above 1000000");
+      if (n > 1000000) FailAt(start, "count above 1000000");
     }
-    if (n == 0) Fail("count 0");
+    if (n == 0) FailAt(start, "count 0");
     return n;
   }
   std::vector<std::pair<int, long long>> Sequence(int depth) {
@@ -123,14 +126,15 @@ class FormulaReader {
         return terms;
       }
       if (c == '(') {
-        ++pos_;
+        const std::size_t open = pos_++;
         auto inner = Sequence(depth + 1);
         if (pos_ >= s_.size() || s_[pos_] != ')') Fail("missing ')'");
+        if (inner.empty()) FailAt(open, "empty parentheses");
         ++pos_;
+        const std::size_t count_at = pos_;
         const long long n = Count();
-        if (inner.empty()) Fail("empty parentheses");
         for (const auto& [z, m] : inner) {
-          if (m * n > 1000000) Fail("count above 1000000");
+          if (m * n > 1000000) FailAt(count_at, "count above 1000000");
           add(z, m * n);
         }
         continue;

@@ -24,8 +24,9 @@ std::string ReducedHillFormula(const std::vector<int>& numbers);
 
 // A written formula read into (atomic number, count) in order of first appearance, repeated
 // elements merged: "SrTiO3", "Li2O", "Ca3(PO4)2" (one or more levels of parentheses), spaces
-// ignored ("Sr Ti O3"). InvalidArgument naming `field` and the character position for an unknown
-// symbol, a zero or missing count after ")", unbalanced parentheses, or counts above 10^6.
+// ignored ("Sr Ti O3"); a missing count is 1. InvalidArgument naming `field` and the character
+// position for an unknown symbol, a count of 0, empty or unbalanced parentheses, or counts above
+// 10^6.
 std::vector<std::pair<int, int>> ParseFormula(const std::string& formula,
                                               const std::string& field = "formula");
 

@@ -37,7 +37,7 @@ module nucleate
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
   public :: nucleate_check_structure, nucleate_match_structures, nucleate_dedup_structures
   public :: nucleate_read_structures
-  public :: nucleate_train, nucleate_model_parameters, nucleate_evaluate
+  public :: nucleate_train, nucleate_model_parameters, nucleate_evaluate, nucleate_sample
 
   interface
     function c_version() bind(C, name="nucleate_version") result(text)
@@ -663,6 +663,134 @@ contains
     call nucleate_reply_reals('Evaluate', reply, 'outputs.lattice_noise', values, status, message)
     if (status /= NUCLEATE_OK) return
     lattice_noise = values(1:6)
+  end subroutine
+
+  !> Candidate crystal structures of `formula` (e.g. "SrTiO3", "Ca3(PO4)2") with min_units to
+  !> max_units formula units per cell, sampled from the model at `model_path` for a DFT workflow
+  !> to relax and rank. Candidates are hypotheses from a statistical model, not predictions of
+  !> stable compounds: confirm them with DFT and experiment, and follow local safety rules and
+  !> licensed practice for toxic or radioactive elements. The full reply, with each candidate's
+  !> problems, toxic and radioactive element flags and duplicate groups, comes from
+  !> nucleate_call_json('Sample', ...) with a SampleRequest (schemas/nucleate/v1/sample.proto).
+  !>
+  !> Candidate k (k = 1..count) is sample first_index + k - 1 of the random stream keyed by `seed`
+  !> (both 0..2^31-1 here), and the same bytes whatever the count: n jobs of an array that each
+  !> ask for `count` candidates from first_index = job * count together get one run's candidates.
+  !>
+  !> Results are packed as nucleate_read_structures returns them (and nucleate_dedup_structures
+  !> takes them): candidate k has counts(k) atoms and lattice lattices(:, :, k), whose column i is
+  !> cell vector i (a, b, c) in Cartesian angstrom; its atoms are columns first .. first +
+  !> counts(k) - 1 of frac (fractional coordinates in [0, 1)) and the same entries of numbers
+  !> (atomic numbers), where first = 1 + sum(counts(1:k-1)). valid(k) is true when the candidate
+  !> passed every validity rule at the default thresholds; space_group(k) is its space-group
+  !> number at 0.1 angstrom (0 when none was found). A candidate whose chain failed (e.g. its cell
+  !> blew up) has counts(k) = 0, a zero lattice, valid(k) false and space_group(k) 0, and the call
+  !> still succeeds.
+  !>
+  !> Optional: `sampler`, one of 'ddpm' (the default), 'ddim', 'pc' (predictor-corrector) or
+  !> 'ode' (probability flow); `steps`, the reverse steps, evenly respaced over the model's T
+  !> (default: all T).
+  subroutine nucleate_sample(model_path, formula, min_units, max_units, count, seed, first_index, &
+                             lattices, frac, numbers, counts, valid, space_group, status, message, &
+                             sampler, steps)
+    character(len=*), intent(in) :: model_path, formula
+    integer, intent(in) :: min_units, max_units, count, seed, first_index
+    real(c_double), allocatable, intent(out) :: lattices(:, :, :), frac(:, :)
+    integer, allocatable, intent(out) :: numbers(:), counts(:), space_group(:)
+    logical, allocatable, intent(out) :: valid(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=*), intent(in), optional :: sampler
+    integer, intent(in), optional :: steps
+    character(len=:), allocatable :: settings, reply
+    real(c_double), allocatable :: error_codes(:), atoms(:), flags(:), groups(:)
+    real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
+    logical, allocatable :: failed(:)
+    integer :: k, m
+    allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0), valid(0), space_group(0))
+    ! Negative values would reach the library as unsigned fields and come back as a malformed
+    ! request; here the caller learns which argument was wrong.
+    if (seed < 0 .or. first_index < 0) then
+      status = NUCLEATE_ERROR_INVALID_ARGUMENT
+      message = 'nucleate_sample: ' // trim(merge('seed       ', 'first_index', seed < 0)) // &
+                ' must be >= 0'
+      return
+    end if
+    settings = ''
+    if (present(sampler)) then
+      select case (trim(sampler))
+      case ('ddpm')
+        settings = '"kind":"SAMPLER_KIND_DDPM"'
+      case ('ddim')
+        settings = '"kind":"SAMPLER_KIND_DDIM"'
+      case ('pc')
+        settings = '"kind":"SAMPLER_KIND_PREDICTOR_CORRECTOR"'
+      case ('ode')
+        settings = '"kind":"SAMPLER_KIND_PROBABILITY_FLOW"'
+      case default
+        status = NUCLEATE_ERROR_INVALID_ARGUMENT
+        message = 'nucleate_sample: sampler ''' // trim(sampler) // &
+                  ''' is not one of ''ddpm'', ''ddim'', ''pc'', ''ode'''
+        return
+      end select
+    end if
+    if (present(steps)) then
+      if (len(settings) > 0) settings = settings // ','
+      settings = settings // '"steps":' // json_int(steps)
+    end if
+    call nucleate_call_json('Sample', '{"model_path":' // json_string(model_path) // &
+                            ',"composition":{"formula":' // json_string(formula) // &
+                            ',"min_formula_units":' // json_int(min_units) // &
+                            ',"max_formula_units":' // json_int(max_units) // &
+                            '},"sampler":{' // settings // '},"seed":' // json_int(seed) // &
+                            ',"first_index":' // json_int(first_index) // ',"count":' // &
+                            json_int(count) // '}', reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    ! One value per candidate from its report (a failed candidate's report holds only its error);
+    ! the structure fields skip failed candidates, which have none.
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.error.code', error_codes, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.num_atoms', atoms, status, &
+                              message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.valid', flags, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.space_group_number', groups, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.lattice', lattice_values, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.frac_coords', frac_values, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.atomic_numbers', &
+                              number_values, status, message)
+    if (status /= NUCLEATE_OK) return
+    failed = nint(error_codes) /= NUCLEATE_OK
+    where (failed) atoms = 0
+    if (9 * size(pack(failed, .not. failed)) /= size(lattice_values) .or. &
+        nint(sum(atoms)) /= size(number_values) .or. 3 * size(number_values) /= size(frac_values)) &
+        then
+      status = NUCLEATE_ERROR_INTERNAL
+      message = 'nucleate_sample: the Sample reply''s candidates and structures disagree in size'
+      return
+    end if
+    deallocate(lattices, frac, numbers, counts, valid, space_group)
+    allocate(lattices(3, 3, size(failed)))
+    lattices = 0
+    m = 0
+    do k = 1, size(failed)
+      if (failed(k)) cycle
+      lattices(:, :, k) = reshape(lattice_values(9 * m + 1:9 * m + 9), [3, 3])
+      m = m + 1
+    end do
+    frac = reshape(frac_values, [3, size(number_values)])
+    numbers = nint(number_values)
+    counts = nint(atoms)
+    valid = nint(flags) /= 0 .and. .not. failed
+    space_group = nint(groups)
   end subroutine
 
 end module nucleate

@@ -63,6 +63,18 @@ sample::SampleLimits LimitsFromMessage(const v1::SampleLimits& m) {
   return l;
 }
 
+// The structure limits of this request live in field structure_limits (FromMessage names its
+// errors "limits.<field>", the name Check and Match use).
+InputLimits StructureLimitsFromMessage(const v1::StructureLimits& m) {
+  try {
+    return FromMessage(m);
+  } catch (const Error& e) {
+    const std::string prefix = "limits.";
+    if (e.field().rfind(prefix, 0) != 0) throw;
+    throw Error(e.kind(), "structure_limits." + e.field().substr(prefix.size()), e.detail());
+  }
+}
+
 sample::SampleJob JobFromMessage(const v1::SampleRequest& r, const InputLimits& input_limits) {
   sample::SampleJob job;
   switch (r.task_case()) {
@@ -124,7 +136,7 @@ sample::SampleJob JobFromMessage(const v1::SampleRequest& r, const InputLimits& 
 void HandleSample(const v1::SampleRequest& request, v1::SampleReply* reply,
                   const CallContext& context) {
   if (request.model_path().empty()) throw InvalidArgument("model_path", "required: the model file");
-  const InputLimits input_limits = FromMessage(request.structure_limits());
+  const InputLimits input_limits = StructureLimitsFromMessage(request.structure_limits());
   // Everything a request can get wrong is checked before the model is read or a chain runs.
   const checks::ValidityThresholds thresholds =
       WithinField("thresholds", [&] { return ThresholdsFromMessage(request.thresholds()); });

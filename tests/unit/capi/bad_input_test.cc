@@ -98,6 +98,60 @@ INSTANTIATE_TEST_SUITE_P(
                 R"({"model_path":"m","cells":[{"structure":{"lattice":[1,0,0],"atomic_numbers":[8],"frac_coords":[0,0,0]}}]})",
                 NUCLEATE_ERROR_INVALID_ARGUMENT, "cells[0].structure"}));
 
+// Sample: everything a request can get wrong is refused before the model file is opened, so these
+// need no model (the path below does not exist; only the last case gets as far as opening it).
+INSTANTIATE_TEST_SUITE_P(
+    Sample, BadRequest,
+    testing::Values(
+        BadCase{"Sample", R"({"composition":{"formula":"NaCl"}})", NUCLEATE_ERROR_INVALID_ARGUMENT,
+                "model_path"},
+        BadCase{"Sample", R"({"model_path":"/nonexistent/model.nucleate"})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "task"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"Xx2O"}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "composition.formula: unknown element 'Xx'"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"Na(Cl"}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "composition.formula: missing ')'"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":""}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "composition.formula: no elements"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"seed":-1})",
+                NUCLEATE_ERROR_MALFORMED_REQUEST, "seed"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"sampler":{"kind":99}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "sampler.kind"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"sampler":{"ddpm_variance":7}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "sampler.ddpm_variance"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"symprec":-1})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "symprec"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"thresholds":{"min_distance":-1}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "thresholds.min_distance"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"tolerances":{"length_tolerance":-1}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "tolerances.length_tolerance"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"limits":{"max_atoms":0}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "limits.max_atoms"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"limits":{"max_count":0}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "limits.max_count"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"},"limits":{"max_evaluations":0}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "limits.max_evaluations"},
+        BadCase{"Sample", R"({"model_path":"/nonexistent/model.nucleate","variation":{}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "variation.structure"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","constrained":{"structure":{"structure":{"lattice":[1,0,0],"atomic_numbers":[8],"frac_coords":[0,0,0]}}}})",
+                NUCLEATE_ERROR_INVALID_ARGUMENT, "constrained.structure.structure.lattice"},
+        BadCase{"Sample",
+                R"({"model_path":"/nonexistent/model.nucleate","composition":{"formula":"NaCl"}})",
+                NUCLEATE_ERROR_IO, "/nonexistent/model.nucleate"}));
+
 TEST(BadArguments, NullPointersAndBadEncodingsAreRefused) {
   void* reply = nullptr;
   size_t size = 0;
