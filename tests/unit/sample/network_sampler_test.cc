@@ -7,42 +7,13 @@
 #include <vector>
 
 #include "core/common/error.h"
-#include "core/model/denoiser.h"
-#include "core/model/diffusion.h"
-#include "core/model/lattice_features.h"
-#include "core/model/nn/parameters.h"
 #include "core/sample/sampler.h"
+#include "tests/unit/sample/random_network.h"
 
 namespace nucleate::sample {
 namespace {
 
-// Hidden 16, one layer, 50 steps; Na and Cl; conditioned on crystal system; random weights.
-model::ModelBundle RandomNetwork(model::SpeciesMode mode = model::SpeciesMode::kGiven) {
-  model::ModelBundle b;
-  model::Architecture& a = b.architecture;
-  a.hidden = 16;
-  a.layers = 1;
-  a.time_embedding = 8;
-  a.fourier_frequencies = 2;
-  a.radial_basis = 4;
-  a.elements = {11, 17};
-  a.species_mode = mode;
-  a.condition_crystal_system = true;
-  b.schedules = model::DefaultModelSchedules();
-  b.schedules.lattice.steps = b.schedules.coordinates.steps = b.schedules.species.steps = 50;
-  Eigen::Matrix3d fcc;
-  fcc << 0, 2.82, 2.82, 2.82, 0, 2.82, 2.82, 2.82, 0;
-  const model::LatticeFeatures mean = model::LatticeToFeatures(fcc, 2);
-  for (int k = 0; k < 6; ++k) {
-    b.normalisation.lattice_mean[k] = mean[k];
-    b.normalisation.lattice_std[k] = 0.3;
-  }
-  b.atom_counts.overall = {0, 0, 5, 0, 3};
-  const model::Denoiser net(a);
-  b.layout = net.layout();
-  b.values = model::nn::Initialise<float>(b.layout, 7);
-  return b;
-}
+using testing::RandomNetwork;
 
 SampleJob NaClJob(std::uint32_t first, std::uint32_t count, int threads) {
   SampleJob job;
