@@ -1,11 +1,15 @@
 #include "core/sample/sampler.h"
 
 #include <algorithm>
+#include <atomic>
+#include <chrono>
+#include <condition_variable>
+#include <exception>
+#include <mutex>
 #include <cmath>
 #include <string>
 #include <thread>
 
-#include "core/common/parallel_for.h"
 #include "core/model/diffusion.h"
 #include "core/sample/network_denoiser.h"
 #include "core/sample/reverse_levels.h"
@@ -14,10 +18,6 @@
 
 namespace nucleate::sample {
 namespace {
-
-// Samples moved through the levels together: enough to keep every thread busy between two
-// progress reports, few enough that cancelling loses little.
-constexpr int kGroupPerThread = 4;
 
 int ResolveThreads(int threads) {
   if (threads < 0) throw InvalidArgument("threads", "must be >= 0 (0 = every core)");
@@ -92,7 +92,9 @@ SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunct
   ValidateSamplerSettings(job.sampler, process.steps());
   const std::vector<ReverseLevel> levels = BuildReverseLevels(process, job.sampler.steps);
   const SampleSetup setup(bundle, levels, job);
-  const std::int64_t evaluations = EvaluationsPerSample(job, levels.size());
+  // Where the chains start (a variation starts below the top level; the same for every sample).
+  const std::size_t first = setup.Start(job.first_index).first_level;
+  const std::int64_t evaluations = EvaluationsPerSample(job, levels.size() - first);
   if (evaluations > job.limits.max_evaluations) {
     throw LimitExceeded("limits.max_evaluations",
                         "each sample needs " + std::to_string(evaluations) +
@@ -106,53 +108,106 @@ SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunct
                             std::to_string(job.limits.max_memory_bytes >> 20) + " MiB");
   }
 
-  SampleRun run;
-  const std::uint32_t group = static_cast<std::uint32_t>(kGroupPerThread * threads);
-  std::int64_t done = 0;
-  std::int64_t total = 0;
+  // Each worker runs whole chains, one sample at a time, taking the next index as it finishes;
+  // worker 0 is the calling thread, which also reports progress, so the observer is only ever
+  // called there. Samples never depend on each other, so the order in which workers take them
+  // changes nothing in the results.
+  const std::int64_t steps = static_cast<std::int64_t>(levels.size() - first);
+  const std::int64_t total = static_cast<std::int64_t>(job.count) * steps;
+  std::vector<SampleOutcome> outcomes(job.count);
+  std::vector<char> finished(job.count, 0);
+  std::atomic<std::uint32_t> next{0};
+  std::atomic<std::int64_t> done{0};
+  std::atomic<bool> stop{false};
+  const int workers = static_cast<int>(std::min<std::uint32_t>(static_cast<std::uint32_t>(threads), job.count));
+  std::atomic<int> running{workers};
+  std::mutex mutex;
+  std::condition_variable changed;
+  std::exception_ptr failure;  // an error that is not a sample's own (e.g. out of memory)
+
+  const auto report = [&] {
+    if (observer && !stop && !observer(done.load(), total)) stop = true;
+  };
+  const auto work = [&](int worker) {
+    Prediction scratch;
+    try {
+      for (std::uint32_t j = next++; j < job.count && !stop; j = next++) {
+        SampleOutcome& outcome = outcomes[j];
+        outcome.index = job.first_index + j;
+        SampleStart start;
+        try {
+          start = setup.Start(outcome.index);
+        } catch (const Error& e) {
+          outcome.error = e.WithinField("samples[" + std::to_string(outcome.index) + "]");
+        }
+        bool ran = true;
+        for (std::size_t k = first; k < levels.size(); ++k) {
+          if (stop) {
+            ran = false;
+            break;
+          }
+          if (!outcome.error) {
+            try {
+              ReverseStep(denoiser, job.sampler, levels, k, start.constraints,
+                          {job.seed, outcome.index}, worker, &scratch, &start.state);
+            } catch (const Error& e) {
+              outcome.error = e.WithinField("samples[" + std::to_string(outcome.index) + "]");
+            }
+          }
+          if (k + 1 == levels.size() && !outcome.error) {
+            try {
+              outcome.crystal = Finish(bundle, setup, start, outcome.index);
+            } catch (const Error& e) {
+              outcome.error = e.WithinField("samples[" + std::to_string(outcome.index) + "]");
+            }
+          }
+          if (k + 1 == levels.size()) finished[j] = 1;  // before the report of its last step
+          ++done;
+          if (worker == 0) {
+            report();
+          } else {
+            changed.notify_one();
+          }
+        }
+        if (!ran) break;
+      }
+    } catch (...) {
+      std::lock_guard<std::mutex> lock(mutex);
+      if (!failure) failure = std::current_exception();
+      stop = true;
+    }
+    --running;
+    changed.notify_one();
+  };
+
+  std::vector<std::thread> pool;
+  for (int w = 1; w < workers; ++w) pool.emplace_back(work, w);
+  work(0);
+  // The calling thread has no sample left: it reports while the others finish theirs.
   {
-    const SampleStart probe = setup.Start(job.first_index);
-    total = static_cast<std::int64_t>(job.count) *
-            static_cast<std::int64_t>(levels.size() - probe.first_level);
-  }
-  std::vector<Prediction> scratch(threads);
-  for (std::uint32_t begin = 0; begin < job.count; begin += group) {
-    const std::uint32_t size = std::min(group, job.count - begin);
-    std::vector<SampleStart> starts(size);
-    std::vector<SampleOutcome> outcomes(size);
-    for (std::uint32_t j = 0; j < size; ++j) {
-      outcomes[j].index = job.first_index + begin + j;
-      starts[j] = setup.Start(outcomes[j].index);
-    }
-    const std::size_t first = starts.front().first_level;  // the same for every sample of a job
-    for (std::size_t k = first; k < levels.size(); ++k) {
-      ParallelFor(size, threads, [&](std::size_t j, int worker) {
-        if (outcomes[j].error) return;
-        try {
-          ReverseStep(denoiser, job.sampler, levels, k, starts[j].constraints,
-                      {job.seed, outcomes[j].index}, worker, &scratch[worker], &starts[j].state);
-        } catch (const Error& e) {
-          outcomes[j].error = e.WithinField("samples[" + std::to_string(outcomes[j].index) + "]");
-        }
-      });
-      done += size;
-      if (observer && !observer(done, total)) {
-        run.cancelled = true;
-        return run;
+    std::unique_lock<std::mutex> lock(mutex);
+    std::int64_t reported = -1;
+    while (running.load() > 0) {
+      changed.wait_for(lock, std::chrono::milliseconds(50));
+      if (done.load() != reported) {
+        reported = done.load();
+        lock.unlock();
+        report();
+        lock.lock();
       }
     }
-    for (std::uint32_t j = 0; j < size; ++j) {
-      if (!outcomes[j].error) {
-        try {
-          outcomes[j].crystal = Finish(bundle, setup, starts[j], outcomes[j].index);
-        } catch (const Error& e) {
-          outcomes[j].error = e.WithinField("samples[" + std::to_string(outcomes[j].index) + "]");
-        }
-      }
-      run.samples.push_back(std::move(outcomes[j]));
-    }
-    run.evaluations += evaluations * size;
   }
+  for (std::thread& t : pool) t.join();
+  if (failure) std::rethrow_exception(failure);
+
+  SampleRun run;
+  run.cancelled = stop && !failure;
+  for (std::uint32_t j = 0; j < job.count; ++j) {
+    if (!finished[j]) continue;
+    run.samples.push_back(std::move(outcomes[j]));
+    run.evaluations += evaluations;
+  }
+  if (run.samples.size() == job.count) run.cancelled = false;
   return run;
 }
 

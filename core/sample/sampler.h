@@ -23,14 +23,18 @@ struct SampleOutcome {
 };
 
 struct SampleRun {
-  std::vector<SampleOutcome> samples;  // finished samples, ascending index
+  // Finished samples, ascending index. After a cancellation with several threads, the finished
+  // ones need not be the lowest indices.
+  std::vector<SampleOutcome> samples;
   bool cancelled = false;
   std::int64_t evaluations = 0;        // network calls (guided calls count twice)
 };
 
-// Called on the calling thread after each reverse step of each group of samples with the work
-// done and the total, counted in sample steps (one sample moved one level); returning false cancels: samples already finished
-// are returned, the group in progress is dropped.
+// Called on the calling thread only, with the work done and the total counted in sample steps
+// (one sample moved one level): after each step the calling thread runs itself, and while it
+// waits for the other threads, whenever they have moved on (checked every 50 ms). Returning
+// false cancels: every thread stops before its next step, finished samples are returned, the
+// samples in progress are dropped.
 using SampleObserver = std::function<bool(std::int64_t done, std::int64_t total)>;
 
 // Bytes the job will need at most, estimated from its largest cell before anything is allocated.

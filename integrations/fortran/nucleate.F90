@@ -36,8 +36,9 @@ module nucleate
   public :: nucleate_version, nucleate_call_json, nucleate_reply_reals
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
   public :: nucleate_check_structure, nucleate_match_structures, nucleate_dedup_structures
-  public :: nucleate_read_structures
+  public :: nucleate_read_structures, nucleate_structure_json
   public :: nucleate_train, nucleate_model_parameters, nucleate_evaluate, nucleate_sample
+  public :: nucleate_sample_request
 
   interface
     function c_version() bind(C, name="nucleate_version") result(text)
@@ -256,9 +257,12 @@ contains
     sigma = table(:, 1)
   end subroutine
 
-  ! A structure as a nucleate.v1.Structure JSON object. lattice(:, i) is cell vector i, which is
-  ! the message's row-major rows a, b, c in memory order.
-  function structure_json(lattice, frac, numbers) result(text)
+  !> One structure as the JSON of a nucleate.v1.Structure message, for requests built by hand
+  !> (e.g. a SampleRequest for nucleate_sample_request): lattice(:, i) is cell vector i (a, b, c)
+  !> in Cartesian angstrom, frac(:, j) the fractional coordinates of atom j and numbers(j) its
+  !> atomic number. Fields of type StructureInput take it as {"structure": <this>}. Numbers are
+  !> written with 18 significant digits, so the library reads back exactly the doubles given.
+  function nucleate_structure_json(lattice, frac, numbers) result(text)
     real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
     integer, intent(in) :: numbers(:)
     character(len=:), allocatable :: text
@@ -323,7 +327,8 @@ contains
     min_distance = 0
     density = 0
     call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
-                            structure_json(lattice, frac, numbers) // '}]}', reply, status, message)
+                            nucleate_structure_json(lattice, frac, numbers) // '}]}', reply, &
+                            status, message)
     if (status /= NUCLEATE_OK) return
     ! A structure that could not be checked carries its own error inside the reply.
     call reply_real('Check', reply, 'reports.error.code', value, status, message)
@@ -374,8 +379,9 @@ contains
     match = .false.
     rms = 0
     call nucleate_call_json('Match', '{"a":{"structure":' // &
-                            structure_json(lattice_a, frac_a, numbers_a) // '},"b":{"structure":' &
-                            // structure_json(lattice_b, frac_b, numbers_b) // '}}', reply, &
+                            nucleate_structure_json(lattice_a, frac_a, numbers_a) // &
+                            '},"b":{"structure":' // &
+                            nucleate_structure_json(lattice_b, frac_b, numbers_b) // '}}', reply, &
                             status, message)
     if (status /= NUCLEATE_OK) return
     call reply_real('Match', reply, 'match', value, status, message)
@@ -412,7 +418,7 @@ contains
     first = 1
     do k = 1, size(counts)
       if (k > 1) request = request // ','
-      request = request // '{"structure":' // structure_json(lattices(:, :, k), &
+      request = request // '{"structure":' // nucleate_structure_json(lattices(:, :, k), &
                 frac(:, first:first + counts(k) - 1), numbers(first:first + counts(k) - 1)) // '}'
       first = first + counts(k)
     end do
@@ -649,8 +655,9 @@ contains
     score = 0
     lattice_noise = 0
     call nucleate_call_json('Evaluate', '{"model_path":' // json_string(model_path) // &
-                            ',"cells":[{"structure":' // structure_json(lattice, frac, numbers) // &
-                            ',"step":' // json_int(step) // '}]}', reply, status, message)
+                            ',"cells":[{"structure":' // &
+                            nucleate_structure_json(lattice, frac, numbers) // ',"step":' // &
+                            json_int(step) // '}]}', reply, status, message)
     if (status /= NUCLEATE_OK) return
     call nucleate_reply_reals('Evaluate', reply, 'outputs.coordinate_score', values, status, message)
     if (status /= NUCLEATE_OK) return
@@ -665,27 +672,98 @@ contains
     lattice_noise = values(1:6)
   end subroutine
 
+  !> Candidate crystal structures from any SampleRequest (schemas/nucleate/v1/sample.proto):
+  !> `request_json` is its protobuf JSON, built by the caller, with any task (composition,
+  !> de_novo, variation, constrained), conditions and guidance, sampler and limits; structures for
+  !> the variation and constrained tasks can be written with nucleate_structure_json. Candidates
+  !> are hypotheses from a statistical model, not predictions of stable compounds: confirm them
+  !> with DFT and experiment, and follow local safety rules and licensed practice for toxic or
+  !> radioactive elements. The full reply, with each candidate's problems, toxic and radioactive
+  !> element flags and duplicate groups, comes from nucleate_call_json('Sample', request_json, ...).
+  !>
+  !> Results are packed as nucleate_read_structures returns them (and nucleate_dedup_structures
+  !> takes them): candidate k (k = 1..count, sample first_index + k - 1) has counts(k) atoms and
+  !> lattice lattices(:, :, k), whose column i is cell vector i (a, b, c) in Cartesian angstrom;
+  !> its atoms are columns first .. first + counts(k) - 1 of frac (fractional coordinates in
+  !> [0, 1)) and the same entries of numbers (atomic numbers), where first = 1 +
+  !> sum(counts(1:k-1)). valid(k) is true when the candidate passed every validity rule at the
+  !> request's thresholds; space_group(k) is its space-group number at the request's symprec (0
+  !> when none was found). A candidate whose chain failed (e.g. its cell blew up) has counts(k) =
+  !> 0, a zero lattice, valid(k) false and space_group(k) 0, and the call still succeeds. On
+  !> failure every array is empty and `message` names the field that was wrong.
+  subroutine nucleate_sample_request(request_json, lattices, frac, numbers, counts, valid, &
+                                     space_group, status, message)
+    character(len=*), intent(in) :: request_json
+    real(c_double), allocatable, intent(out) :: lattices(:, :, :), frac(:, :)
+    integer, allocatable, intent(out) :: numbers(:), counts(:), space_group(:)
+    logical, allocatable, intent(out) :: valid(:)
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double), allocatable :: error_codes(:), atoms(:), flags(:), groups(:)
+    real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
+    logical, allocatable :: failed(:)
+    integer :: k, m
+    allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0), valid(0), space_group(0))
+    call nucleate_call_json('Sample', request_json, reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    ! One value per candidate from its report (a failed candidate's report holds only its error);
+    ! the structure fields skip failed candidates, which have none.
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.error.code', error_codes, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.num_atoms', atoms, status, &
+                              message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.valid', flags, status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.report.space_group_number', groups, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.lattice', lattice_values, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.frac_coords', frac_values, &
+                              status, message)
+    if (status /= NUCLEATE_OK) return
+    call nucleate_reply_reals('Sample', reply, 'candidates.structure.atomic_numbers', &
+                              number_values, status, message)
+    if (status /= NUCLEATE_OK) return
+    failed = nint(error_codes) /= NUCLEATE_OK
+    where (failed) atoms = 0
+    if (9 * size(pack(failed, .not. failed)) /= size(lattice_values) .or. &
+        nint(sum(atoms)) /= size(number_values) .or. 3 * size(number_values) /= size(frac_values)) &
+        then
+      status = NUCLEATE_ERROR_INTERNAL
+      message = 'nucleate_sample_request: the Sample reply''s candidates and structures ' // &
+                'disagree in size'
+      return
+    end if
+    deallocate(lattices, frac, numbers, counts, valid, space_group)
+    allocate(lattices(3, 3, size(failed)))
+    lattices = 0
+    m = 0
+    do k = 1, size(failed)
+      if (failed(k)) cycle
+      lattices(:, :, k) = reshape(lattice_values(9 * m + 1:9 * m + 9), [3, 3])
+      m = m + 1
+    end do
+    frac = reshape(frac_values, [3, size(number_values)])
+    numbers = nint(number_values)
+    counts = nint(atoms)
+    valid = nint(flags) /= 0 .and. .not. failed
+    space_group = nint(groups)
+  end subroutine
+
   !> Candidate crystal structures of `formula` (e.g. "SrTiO3", "Ca3(PO4)2") with min_units to
   !> max_units formula units per cell, sampled from the model at `model_path` for a DFT workflow
-  !> to relax and rank. Candidates are hypotheses from a statistical model, not predictions of
-  !> stable compounds: confirm them with DFT and experiment, and follow local safety rules and
-  !> licensed practice for toxic or radioactive elements. The full reply, with each candidate's
-  !> problems, toxic and radioactive element flags and duplicate groups, comes from
-  !> nucleate_call_json('Sample', ...) with a SampleRequest (schemas/nucleate/v1/sample.proto).
+  !> to relax and rank, at the default thresholds and symprec (0.1 angstrom). Candidates are
+  !> hypotheses from a statistical model, not predictions of stable compounds (see
+  !> nucleate_sample_request, which this calls, for the packed results and for the other tasks).
   !>
   !> Candidate k (k = 1..count) is sample first_index + k - 1 of the random stream keyed by `seed`
   !> (both 0..2^31-1 here), and the same bytes whatever the count: n jobs of an array that each
   !> ask for `count` candidates from first_index = job * count together get one run's candidates.
-  !>
-  !> Results are packed as nucleate_read_structures returns them (and nucleate_dedup_structures
-  !> takes them): candidate k has counts(k) atoms and lattice lattices(:, :, k), whose column i is
-  !> cell vector i (a, b, c) in Cartesian angstrom; its atoms are columns first .. first +
-  !> counts(k) - 1 of frac (fractional coordinates in [0, 1)) and the same entries of numbers
-  !> (atomic numbers), where first = 1 + sum(counts(1:k-1)). valid(k) is true when the candidate
-  !> passed every validity rule at the default thresholds; space_group(k) is its space-group
-  !> number at 0.1 angstrom (0 when none was found). A candidate whose chain failed (e.g. its cell
-  !> blew up) has counts(k) = 0, a zero lattice, valid(k) false and space_group(k) 0, and the call
-  !> still succeeds.
   !>
   !> Optional: `sampler`, one of 'ddpm' (the default), 'ddim', 'pc' (predictor-corrector) or
   !> 'ode' (probability flow); `steps`, the reverse steps, evenly respaced over the model's T
@@ -702,11 +780,7 @@ contains
     character(len=:), allocatable, intent(out) :: message
     character(len=*), intent(in), optional :: sampler
     integer, intent(in), optional :: steps
-    character(len=:), allocatable :: settings, reply
-    real(c_double), allocatable :: error_codes(:), atoms(:), flags(:), groups(:)
-    real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
-    logical, allocatable :: failed(:)
-    integer :: k, m
+    character(len=:), allocatable :: settings
     allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0), valid(0), space_group(0))
     ! Negative values would reach the library as unsigned fields and come back as a malformed
     ! request; here the caller learns which argument was wrong.
@@ -738,59 +812,14 @@ contains
       if (len(settings) > 0) settings = settings // ','
       settings = settings // '"steps":' // json_int(steps)
     end if
-    call nucleate_call_json('Sample', '{"model_path":' // json_string(model_path) // &
-                            ',"composition":{"formula":' // json_string(formula) // &
-                            ',"min_formula_units":' // json_int(min_units) // &
-                            ',"max_formula_units":' // json_int(max_units) // &
-                            '},"sampler":{' // settings // '},"seed":' // json_int(seed) // &
-                            ',"first_index":' // json_int(first_index) // ',"count":' // &
-                            json_int(count) // '}', reply, status, message)
-    if (status /= NUCLEATE_OK) return
-    ! One value per candidate from its report (a failed candidate's report holds only its error);
-    ! the structure fields skip failed candidates, which have none.
-    call nucleate_reply_reals('Sample', reply, 'candidates.report.error.code', error_codes, &
-                              status, message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.report.num_atoms', atoms, status, &
-                              message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.report.valid', flags, status, message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.report.space_group_number', groups, &
-                              status, message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.structure.lattice', lattice_values, &
-                              status, message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.structure.frac_coords', frac_values, &
-                              status, message)
-    if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Sample', reply, 'candidates.structure.atomic_numbers', &
-                              number_values, status, message)
-    if (status /= NUCLEATE_OK) return
-    failed = nint(error_codes) /= NUCLEATE_OK
-    where (failed) atoms = 0
-    if (9 * size(pack(failed, .not. failed)) /= size(lattice_values) .or. &
-        nint(sum(atoms)) /= size(number_values) .or. 3 * size(number_values) /= size(frac_values)) &
-        then
-      status = NUCLEATE_ERROR_INTERNAL
-      message = 'nucleate_sample: the Sample reply''s candidates and structures disagree in size'
-      return
-    end if
-    deallocate(lattices, frac, numbers, counts, valid, space_group)
-    allocate(lattices(3, 3, size(failed)))
-    lattices = 0
-    m = 0
-    do k = 1, size(failed)
-      if (failed(k)) cycle
-      lattices(:, :, k) = reshape(lattice_values(9 * m + 1:9 * m + 9), [3, 3])
-      m = m + 1
-    end do
-    frac = reshape(frac_values, [3, size(number_values)])
-    numbers = nint(number_values)
-    counts = nint(atoms)
-    valid = nint(flags) /= 0 .and. .not. failed
-    space_group = nint(groups)
+    call nucleate_sample_request('{"model_path":' // json_string(model_path) // &
+                                 ',"composition":{"formula":' // json_string(formula) // &
+                                 ',"min_formula_units":' // json_int(min_units) // &
+                                 ',"max_formula_units":' // json_int(max_units) // &
+                                 '},"sampler":{' // settings // '},"seed":' // json_int(seed) // &
+                                 ',"first_index":' // json_int(first_index) // ',"count":' // &
+                                 json_int(count) // '}', lattices, frac, numbers, counts, valid, &
+                                 space_group, status, message)
   end subroutine
 
 end module nucleate

@@ -153,8 +153,8 @@ int32_t CancelAtHalf(double fraction, const char*, void* calls) {
   return fraction >= 0.5 ? 1 : 0;
 }
 
-// One thread: groups of 4 samples, so cancelling at half of 12 keeps the first group of 4 (the
-// second is still running when half the steps are done) and reports CANCELLED with them.
+// One thread runs the 12 samples one after another (50 steps each, a report after every step):
+// cancelling at half keeps the first 6, finished exactly then, and reports CANCELLED with them.
 TEST_F(SampleMethod, CancellationReturnsTheFinishedCandidates) {
   const std::string json = "{\"model_path\": \"" + Given() +
                            R"(", "composition": {"formula": "NaCl"}, "count": 12, "threads": 1})";
@@ -171,9 +171,8 @@ TEST_F(SampleMethod, CancellationReturnsTheFinishedCandidates) {
   nucleate_free(reply);
   nucleate_free(message);
   EXPECT_TRUE(r.summary().cancelled());
-  EXPECT_EQ(r.candidates_size(), 4);
-  // One report per level per group: 3 groups x 50 levels = 150 in all; half is reached at the 75th.
-  EXPECT_EQ(calls, 75);
+  EXPECT_EQ(r.candidates_size(), 6);
+  EXPECT_EQ(calls, 12 * 50 / 2);
 }
 
 }  // namespace
