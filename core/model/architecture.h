@@ -2,6 +2,7 @@
 // model bundle; two bundles with equal architectures hold interchangeable tensors.
 #pragma once
 
+#include <algorithm>
 #include <string>
 #include <vector>
 
@@ -34,6 +35,14 @@ struct Architecture {
   std::vector<std::string> properties;  // named scalar properties, standardised
 
   int species_tokens() const { return static_cast<int>(elements.size()) + 1; }
+  // The vocabulary index of an element, or -1 when the model does not know it (binary search:
+  // ValidateArchitecture keeps `elements` strictly ascending).
+  int token_of(int atomic_number) const {
+    const auto found = std::lower_bound(elements.begin(), elements.end(), atomic_number);
+    return found != elements.end() && *found == atomic_number
+               ? static_cast<int>(found - elements.begin())
+               : -1;
+  }
   int mask_token() const { return static_cast<int>(elements.size()); }
   int edge_features() const { return 6 * fourier_frequencies + radial_basis; }
 };

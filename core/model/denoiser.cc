@@ -79,63 +79,54 @@ void Denoiser::Forward(const GraphBatch<T>& b, const T* w, DenoiserOutput<T>* ou
 
   // Per-cell context: time, noisy lattice and conditions, added to every atom of the cell.
   auto& s = c.scratch;
-  Matrix<T>& context = s.context;
-  Matrix<T>& term = s.term;
   nn::LinearForward(context_in_, w, b.cell_inputs, &c.context_pre);
   nn::SiluForward(c.context_pre, &c.context_hidden);
-  nn::LinearForward(context_out_, w, c.context_hidden, &context);
+  nn::LinearForward(context_out_, w, c.context_hidden, &s.context);
   if (a.condition_composition) {
     WithMissingFlags(b.composition, b.composition_present, &c.composition_input);
-    nn::LinearForward(composition_, w, c.composition_input, &term);
-    context += term;
+    nn::LinearForward(composition_, w, c.composition_input, &s.term);
+    s.context += s.term;
   }
   if (a.condition_crystal_system) {
-    nn::EmbeddingForward(crystal_system_, w, b.crystal_system, &term);
-    context += term;
+    nn::EmbeddingForward(crystal_system_, w, b.crystal_system, &s.term);
+    s.context += s.term;
   }
   if (a.condition_space_group) {
-    nn::EmbeddingForward(space_group_, w, b.space_group, &term);
-    context += term;
+    nn::EmbeddingForward(space_group_, w, b.space_group, &s.term);
+    s.context += s.term;
   }
   if (!a.properties.empty()) {
     WithMissingFlags(b.properties, b.properties_present, &c.property_input);
-    nn::LinearForward(properties_, w, c.property_input, &term);
-    context += term;
+    nn::LinearForward(properties_, w, c.property_input, &s.term);
+    s.context += s.term;
   }
-  Matrix<T>& h = s.h;
-  nn::EmbeddingForward(species_, w, b.tokens, &h);
-  nn::SegmentBroadcast(context, b.atom_offsets, &term);
-  h += term;
+  nn::EmbeddingForward(species_, w, b.tokens, &s.h);
+  nn::SegmentBroadcast(s.context, b.atom_offsets, &s.term);
+  s.h += s.term;
 
-  Matrix<T>& send = s.send;
-  Matrix<T>& receive = s.receive;
-  Matrix<T>& gathered = s.gathered;
-  Matrix<T>& messages = s.messages;
-  Matrix<T>& mean_message = s.mean_message;
-  Matrix<T>& update = s.update;
   for (std::size_t l = 0; l < layers_.size(); ++l) {
     const LayerParameters& p = layers_[l];
     typename DenoiserCache<T>::Layer& k = c.layers[l];
-    nn::LayerNormForward(p.norm, w, h, &k.x, &k.norm);
-    nn::LinearForward(p.send, w, k.x, &send);
-    nn::LinearForward(p.receive, w, k.x, &receive);
+    nn::LayerNormForward(p.norm, w, s.h, &k.x, &k.norm);
+    nn::LinearForward(p.send, w, k.x, &s.send);
+    nn::LinearForward(p.receive, w, k.x, &s.receive);
     nn::LinearForward(p.geometry, w, b.edge_geometry, &k.edge_pre);
-    nn::GatherRows(send, b.edge_sender, &gathered);
-    k.edge_pre += gathered;
-    nn::GatherRows(receive, b.edge_receiver, &gathered);
-    k.edge_pre += gathered;
+    nn::GatherRows(s.send, b.edge_sender, &s.gathered);
+    k.edge_pre += s.gathered;
+    nn::GatherRows(s.receive, b.edge_receiver, &s.gathered);
+    k.edge_pre += s.gathered;
     nn::SiluForward(k.edge_pre, &k.edge_hidden);
     nn::LinearForward(p.message, w, k.edge_hidden, &k.message_pre);
-    nn::SiluForward(k.message_pre, &messages);
-    nn::SegmentMean(messages, b.edge_offsets, &mean_message);
-    Concatenate(k.x, mean_message, &k.update_input);
+    nn::SiluForward(k.message_pre, &s.messages);
+    nn::SegmentMean(s.messages, b.edge_offsets, &s.mean_message);
+    Concatenate(k.x, s.mean_message, &k.update_input);
     nn::LinearForward(p.update_in, w, k.update_input, &k.update_pre);
     nn::SiluForward(k.update_pre, &k.update_hidden);
-    nn::LinearForward(p.update_out, w, k.update_hidden, &update);
-    h += update;
+    nn::LinearForward(p.update_out, w, k.update_hidden, &s.update);
+    s.h += s.update;
   }
 
-  nn::LayerNormForward(final_norm_, w, h, &c.final_x, &c.final_norm);
+  nn::LayerNormForward(final_norm_, w, s.h, &c.final_x, &c.final_norm);
   nn::LinearForward(coordinate_hidden_, w, c.final_x, &c.coordinate_pre);
   nn::SiluForward(c.coordinate_pre, &c.coordinate_hidden);
   nn::LinearForward(coordinate_out_, w, c.coordinate_hidden, &out->coordinate_score);
@@ -161,85 +152,67 @@ void Denoiser::Backward(const GraphBatch<T>& b, const T* w, const DenoiserCache<
   const Architecture& a = architecture_;
   const int hidden = a.hidden;
   auto& s = c.scratch;
-  Matrix<T>& dx = s.dx;
-  Matrix<T>& dtmp = s.dtmp;
-  Matrix<T>& dhidden = s.dhidden;
-  Matrix<T>& dfinal = s.dfinal;
 
   // Heads. The mean removal is a self-adjoint projection: its backward pass is the same.
-  Matrix<T>& dscore = s.dscore;
-  dscore = d.coordinate_score;
-  nn::RemoveSegmentMean(b.atom_offsets, &dscore);
-  nn::LinearBackward(coordinate_out_, w, c.coordinate_hidden, dscore, g, &dhidden);
-  nn::SiluBackward(c.coordinate_pre, dhidden, &dtmp);
-  nn::LinearBackward(coordinate_hidden_, w, c.final_x, dtmp, g, &dfinal);
+  s.dscore = d.coordinate_score;
+  nn::RemoveSegmentMean(b.atom_offsets, &s.dscore);
+  nn::LinearBackward(coordinate_out_, w, c.coordinate_hidden, s.dscore, g, &s.dhidden);
+  nn::SiluBackward(c.coordinate_pre, s.dhidden, &s.dtmp);
+  nn::LinearBackward(coordinate_hidden_, w, c.final_x, s.dtmp, g, &s.dfinal);
 
-  nn::LinearBackward(lattice_out_, w, c.lattice_hidden, d.lattice_noise, g, &dhidden);
-  nn::SiluBackward(c.lattice_pre, dhidden, &dtmp);
-  Matrix<T>& dpooled = s.dpooled;
-  nn::LinearBackward(lattice_hidden_, w, c.pooled, dtmp, g, &dpooled);
-  nn::SegmentMeanBackward(dpooled, b.atom_offsets, &dx);
-  dfinal += dx;
+  nn::LinearBackward(lattice_out_, w, c.lattice_hidden, d.lattice_noise, g, &s.dhidden);
+  nn::SiluBackward(c.lattice_pre, s.dhidden, &s.dtmp);
+  nn::LinearBackward(lattice_hidden_, w, c.pooled, s.dtmp, g, &s.dpooled);
+  nn::SegmentMeanBackward(s.dpooled, b.atom_offsets, &s.dx);
+  s.dfinal += s.dx;
 
   if (a.species_mode == SpeciesMode::kAbsorbing && d.species_logits.size() > 0) {
-    nn::LinearBackward(species_out_, w, c.species_hidden, d.species_logits, g, &dhidden);
-    nn::SiluBackward(c.species_pre, dhidden, &dtmp);
-    nn::LinearBackward(species_hidden_, w, c.final_x, dtmp, g, &dx);
-    dfinal += dx;
+    nn::LinearBackward(species_out_, w, c.species_hidden, d.species_logits, g, &s.dhidden);
+    nn::SiluBackward(c.species_pre, s.dhidden, &s.dtmp);
+    nn::LinearBackward(species_hidden_, w, c.final_x, s.dtmp, g, &s.dx);
+    s.dfinal += s.dx;
   }
 
-  Matrix<T>& dh = s.dh;
-  nn::LayerNormBackward(final_norm_, w, c.final_norm, dfinal, g, &dh);
+  nn::LayerNormBackward(final_norm_, w, c.final_norm, s.dfinal, g, &s.dh);
 
-  Matrix<T>& dupdate_hidden = s.dupdate_hidden;
-  Matrix<T>& dupdate_pre = s.dupdate_pre;
-  Matrix<T>& dupdate_input = s.dupdate_input;
-  Matrix<T>& dmean = s.dmean;
-  Matrix<T>& dmessages = s.dmessages;
-  Matrix<T>& dmessage_pre = s.dmessage_pre;
-  Matrix<T>& dedge_hidden = s.dedge_hidden;
-  Matrix<T>& dedge_pre = s.dedge_pre;
-  Matrix<T>& dnode = s.dnode;
-  Matrix<T>& dlayer_x = s.dlayer_x;
   for (std::size_t l = layers_.size(); l-- > 0;) {
     const LayerParameters& p = layers_[l];
     const typename DenoiserCache<T>::Layer& k = c.layers[l];
-    // h_out = h_in + update: dh flows to h_in unchanged, plus through the branch.
-    nn::LinearBackward(p.update_out, w, k.update_hidden, dh, g, &dupdate_hidden);
-    nn::SiluBackward(k.update_pre, dupdate_hidden, &dupdate_pre);
-    nn::LinearBackward(p.update_in, w, k.update_input, dupdate_pre, g, &dupdate_input);
-    dlayer_x = dupdate_input.leftCols(hidden);
-    dmean = dupdate_input.rightCols(hidden);
-    nn::SegmentMeanBackward(dmean, b.edge_offsets, &dmessages);
-    nn::SiluBackward(k.message_pre, dmessages, &dmessage_pre);
-    nn::LinearBackward(p.message, w, k.edge_hidden, dmessage_pre, g, &dedge_hidden);
-    nn::SiluBackward(k.edge_pre, dedge_hidden, &dedge_pre);
-    nn::LinearBackward<T>(p.geometry, w, b.edge_geometry, dedge_pre, g, nullptr);
+    // h_out = h_in + update: s.dh flows to h_in unchanged, plus through the branch.
+    nn::LinearBackward(p.update_out, w, k.update_hidden, s.dh, g, &s.dupdate_hidden);
+    nn::SiluBackward(k.update_pre, s.dupdate_hidden, &s.dupdate_pre);
+    nn::LinearBackward(p.update_in, w, k.update_input, s.dupdate_pre, g, &s.dupdate_input);
+    s.dlayer_x = s.dupdate_input.leftCols(hidden);
+    s.dmean = s.dupdate_input.rightCols(hidden);
+    nn::SegmentMeanBackward(s.dmean, b.edge_offsets, &s.dmessages);
+    nn::SiluBackward(k.message_pre, s.dmessages, &s.dmessage_pre);
+    nn::LinearBackward(p.message, w, k.edge_hidden, s.dmessage_pre, g, &s.dedge_hidden);
+    nn::SiluBackward(k.edge_pre, s.dedge_hidden, &s.dedge_pre);
+    nn::LinearBackward<T>(p.geometry, w, b.edge_geometry, s.dedge_pre, g, nullptr);
     const int atoms = b.atoms();
-    nn::GatherRowsBackward(dedge_pre, b.edge_sender, atoms, &dnode);
-    nn::LinearBackward(p.send, w, k.x, dnode, g, &dx);
-    dlayer_x += dx;
-    nn::GatherRowsBackward(dedge_pre, b.edge_receiver, atoms, &dnode);
-    nn::LinearBackward(p.receive, w, k.x, dnode, g, &dx);
-    dlayer_x += dx;
-    nn::LayerNormBackward(p.norm, w, k.norm, dlayer_x, g, &dx);
-    dh += dx;
+    nn::GatherRowsBackward(s.dedge_pre, b.edge_sender, atoms, &s.dnode);
+    nn::LinearBackward(p.send, w, k.x, s.dnode, g, &s.dx);
+    s.dlayer_x += s.dx;
+    nn::GatherRowsBackward(s.dedge_pre, b.edge_receiver, atoms, &s.dnode);
+    nn::LinearBackward(p.receive, w, k.x, s.dnode, g, &s.dx);
+    s.dlayer_x += s.dx;
+    nn::LayerNormBackward(p.norm, w, k.norm, s.dlayer_x, g, &s.dx);
+    s.dh += s.dx;
   }
 
-  nn::EmbeddingBackward(species_, b.tokens, dh, g);
-  Matrix<T>& dcontext = s.dcontext;
-  nn::SegmentBroadcastBackward(dh, b.atom_offsets, &dcontext);
+  nn::EmbeddingBackward(species_, b.tokens, s.dh, g);
+  nn::SegmentBroadcastBackward(s.dh, b.atom_offsets, &s.dcontext);
   if (a.condition_composition) {
-    nn::LinearBackward<T>(composition_, w, c.composition_input, dcontext, g, nullptr);
+    nn::LinearBackward<T>(composition_, w, c.composition_input, s.dcontext, g, nullptr);
   }
-  if (a.condition_crystal_system) nn::EmbeddingBackward(crystal_system_, b.crystal_system, dcontext, g);
-  if (a.condition_space_group) nn::EmbeddingBackward(space_group_, b.space_group, dcontext, g);
+  if (a.condition_crystal_system) nn::EmbeddingBackward(crystal_system_, b.crystal_system, s.dcontext, g);
+  if (a.condition_space_group) nn::EmbeddingBackward(space_group_, b.space_group, s.dcontext, g);
   if (!a.properties.empty()) {
-    nn::LinearBackward<T>(properties_, w, c.property_input, dcontext, g, nullptr);
+    nn::LinearBackward<T>(properties_, w, c.property_input, s.dcontext, g, nullptr);
   }
-  nn::LinearBackward(context_out_, w, c.context_hidden, dcontext, g, &dhidden);
-  nn::SiluBackward(c.context_pre, dhidden, &dtmp);
-  nn::LinearBackward<T>(context_in_, w, b.cell_inputs, dtmp, g, nullptr);
+  nn::LinearBackward(context_out_, w, c.context_hidden, s.dcontext, g, &s.dhidden);
+  nn::SiluBackward(c.context_pre, s.dhidden, &s.dtmp);
+  nn::LinearBackward<T>(context_in_, w, b.cell_inputs, s.dtmp, g, nullptr);
 }
 
 double Denoiser::ForwardMultiplyAdds(int atoms, int edges, int cells) const {

@@ -2,7 +2,6 @@
 
 #include <cmath>
 #include <limits>
-#include <map>
 #include <string>
 
 #include "core/common/error.h"
@@ -26,8 +25,6 @@ NoisyCell ToNoisyCell(const ModelBundle& b, const DiffusionProcess& process,
   if (!in.masked.empty() && static_cast<int>(in.masked.size()) != n) {
     throw InvalidArgument(field + ".masked", "needs one entry per atom (" + std::to_string(n) + ")");
   }
-  std::map<int, int> vocabulary;
-  for (std::size_t k = 0; k < a.elements.size(); ++k) vocabulary[a.elements[k]] = static_cast<int>(k);
   NoisyCell c;
   c.lattice = in.cell.lattice;
   c.frac = in.cell.frac;
@@ -45,14 +42,14 @@ NoisyCell ToNoisyCell(const ModelBundle& b, const DiffusionProcess& process,
       c.tokens.push_back(a.mask_token());
       continue;
     }
-    const auto found = vocabulary.find(in.cell.numbers[i]);
-    if (found == vocabulary.end()) {
+    const int token = a.token_of(in.cell.numbers[i]);
+    if (token < 0) {
       throw InvalidArgument(field + ".cell.atomic_numbers[" + std::to_string(i) + "]",
                             "element " + std::to_string(in.cell.numbers[i]) +
                                 " is not in the model's vocabulary");
     }
-    c.tokens.push_back(found->second);
-    composition[found->second] += 1.0 / n;
+    c.tokens.push_back(token);
+    composition[token] += 1.0 / n;
   }
   if (in.composition_known && a.condition_composition) c.conditions.composition = composition;
   if (in.crystal_system < 0 || in.crystal_system > 7) {

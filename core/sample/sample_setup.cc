@@ -62,7 +62,6 @@ SampleSetup::SampleSetup(const model::ModelBundle& bundle, const std::vector<Rev
     statistics_.mean[k] = bundle.normalisation.lattice_mean[k];
     statistics_.std[k] = bundle.normalisation.lattice_std[k];
   }
-  for (std::size_t k = 0; k < a.elements.size(); ++k) vocabulary_[a.elements[k]] = static_cast<int>(k);
   const bool absorbing = a.species_mode == model::SpeciesMode::kAbsorbing;
   const SampleLimits& limits = job.limits;
   if (limits.max_atoms < 1) throw InvalidArgument("limits.max_atoms", "must be >= 1");
@@ -205,13 +204,14 @@ SampleSetup::SampleSetup(const model::ModelBundle& bundle, const std::vector<Rev
 }
 
 int SampleSetup::Token(int atomic_number, const std::string& field) const {
-  const auto found = vocabulary_.find(atomic_number);
-  if (found == vocabulary_.end()) {
+  const int token = bundle_.architecture.token_of(atomic_number);
+  if (token < 0) {
     throw InvalidArgument(field, "element " + std::to_string(atomic_number) +
                                      " is not in the model's vocabulary (" +
-                                     std::to_string(vocabulary_.size()) + " elements)");
+                                     std::to_string(bundle_.architecture.elements.size()) +
+                                     " elements)");
   }
-  return found->second;
+  return token;
 }
 
 int SampleSetup::DrawAtoms(std::uint32_t index, int* formula_units) const {

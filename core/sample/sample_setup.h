@@ -4,7 +4,6 @@
 #pragma once
 
 #include <cstdint>
-#include <map>
 #include <vector>
 
 #include "core/model/bundle/model_bundle.h"
@@ -50,7 +49,6 @@ class SampleSetup {
   const std::vector<ReverseLevel>& levels_;
   const SampleJob& job_;
   model::LatticeStatistics statistics_;
-  std::map<int, int> vocabulary_;       // atomic number -> token
   std::vector<double> properties_;      // standardised, NaN = missing
   std::vector<char> allowed_;           // per vocabulary element (de novo), empty = all
   structure::Crystal given_;            // variation / constrained: the structure, reduced or not

@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
-#include <map>
 
 #include "core/common/error.h"
 #include "core/model/lattice_features.h"
@@ -15,20 +14,15 @@ namespace {
 // False when the example holds an element outside the vocabulary.
 bool MakeCleanCell(const data::TrainingExample& e, const model::Architecture& a,
                    const data::TrainingStatistics& s, CleanCell* out) {
-  const std::map<int, int> index = [&] {
-    std::map<int, int> m;
-    for (std::size_t k = 0; k < a.elements.size(); ++k) m[a.elements[k]] = static_cast<int>(k);
-    return m;
-  }();
   const int n = static_cast<int>(e.crystal.size());
   out->frac = e.crystal.frac;
   out->tokens.resize(n);
   std::vector<double> composition(a.elements.size(), 0.0);
   for (int i = 0; i < n; ++i) {
-    const auto found = index.find(e.crystal.numbers[i]);
-    if (found == index.end()) return false;
-    out->tokens[i] = found->second;
-    composition[found->second] += 1.0 / n;
+    const int token = a.token_of(e.crystal.numbers[i]);
+    if (token < 0) return false;
+    out->tokens[i] = token;
+    composition[token] += 1.0 / n;
   }
   out->features = s.lattice.Standardise(model::LatticeToFeatures(e.crystal.lattice, n));
   model::CellConditions& k = out->conditions;
