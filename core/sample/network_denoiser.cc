@@ -28,7 +28,8 @@ NetworkDenoiser::NetworkDenoiser(const model::ModelBundle& bundle,
                                        std::to_string(net_.layout().size()));
   }
   if (!(guidance >= 0) || !std::isfinite(guidance)) {
-    throw InvalidArgument("guidance", "must be finite and >= 0 (0 unconditional, 1 conditional)");
+    throw InvalidArgument("conditions.guidance",
+                          "must be finite and >= 0 (0 unconditional, 1 conditional)");
   }
   for (int w = 0; w < std::max(workers, 1); ++w) workspaces_.push_back(std::make_unique<Workspace>());
 }

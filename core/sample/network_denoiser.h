@@ -18,7 +18,7 @@ class NetworkDenoiser : public DenoisingFunction {
  public:
   // `bundle` and `process` must outlive this object. `workers` >= 1 scratch sets.
   // InvalidArgument("model") when the bundle's values do not fit its architecture;
-  // InvalidArgument("guidance") for a negative or non-finite strength.
+  // InvalidArgument("conditions.guidance") for a negative or non-finite strength.
   NetworkDenoiser(const model::ModelBundle& bundle, const model::DiffusionProcess& process,
                   double guidance, int workers);
   ~NetworkDenoiser() override;

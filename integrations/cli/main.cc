@@ -13,6 +13,7 @@
 #include "match_command.h"
 #include "design_command.h"
 #include "nucleate/nucleate.h"
+#include "sample_command.h"
 #include "schedule_command.h"
 #include "train_command.h"
 
@@ -50,7 +51,7 @@ void AddCallCommand(CLI::App& app, std::function<int()>* run) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  CLI::App app{"nucleate: design noise schedules; train denoisers; check, match, deduplicate and convert crystal structures"};
+  CLI::App app{"nucleate: design noise schedules; train denoisers; sample candidates; check, match, deduplicate and convert crystal structures"};
   app.require_subcommand(1);
   std::function<int()> run;
   AddVersionCommand(app, &run);
@@ -63,6 +64,7 @@ int main(int argc, char** argv) {
   nucleate::cli::AddConvertCommand(app, &run);
   nucleate::cli::AddTrainCommand(app, &run);
   nucleate::cli::AddModelCommand(app, &run);
+  nucleate::cli::AddSampleCommand(app, &run);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

@@ -1,11 +1,5 @@
 #include "train_command.h"
 
-#include <unistd.h>
-
-#include <atomic>
-#include <chrono>
-#include <csignal>
-#include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
@@ -14,25 +8,11 @@
 
 #include "abi_client.h"
 #include "json_reply.h"
+#include "interruptible_call.h"
 
 namespace nucleate::cli {
 namespace {
 
-// Set by SIGINT / SIGTERM (a batch scheduler's warning before the time limit): the next progress
-// report cancels, the library writes the model and the last checkpoint stays resumable.
-std::atomic<bool> g_stop{false};
-extern "C" void RequestStop(int) { g_stop = true; }
-
-std::string Duration(double seconds) {
-  const long s = static_cast<long>(seconds + 0.5);
-  char text[32];
-  if (s >= 3600) {
-    std::snprintf(text, sizeof text, "%ldh%02ldm", s / 3600, (s % 3600) / 60);
-  } else {
-    std::snprintf(text, sizeof text, "%ldm%02lds", s / 60, s % 60);
-  }
-  return text;
-}
 
 std::string ReadFile(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
@@ -41,49 +21,6 @@ std::string ReadFile(const std::string& path) {
   text << in.rdbuf();
   return text.str();
 }
-
-// Progress on stderr: a bar redrawn in place on a terminal; otherwise a line per 5 %, so a batch
-// job's log file stays readable.
-class ProgressDisplay {
- public:
-  explicit ProgressDisplay(bool terminal) : terminal_(terminal), start_(Clock::now()) {}
-
-  bool Update(double fraction) {
-    const double elapsed = std::chrono::duration<double>(Clock::now() - start_).count();
-    const double left = fraction > 0 ? elapsed * (1 - fraction) / fraction : 0;
-    if (terminal_) {
-      const int width = 30, filled = static_cast<int>(fraction * width);
-      std::cerr << "\r[" << std::string(filled, '#') << std::string(width - filled, '-') << "] "
-                << static_cast<int>(fraction * 100) << "%  elapsed " << Duration(elapsed)
-                << "  left " << Duration(left) << "   " << std::flush;
-      drawn_ = true;
-    } else if (fraction >= next_line_) {
-      std::cerr << "progress " << static_cast<int>(fraction * 100) << "% elapsed "
-                << Duration(elapsed) << " left " << Duration(left) << '\n';
-      next_line_ = fraction + 0.05;
-    }
-    return !g_stop;
-  }
-
-  // Log lines must not land in the middle of the bar.
-  void Line(const std::string& line) {
-    if (drawn_) std::cerr << '\n';
-    drawn_ = false;
-    std::cerr << line << '\n';
-  }
-
-  void Finish() {
-    if (drawn_) std::cerr << '\n';
-    drawn_ = false;
-  }
-
- private:
-  using Clock = std::chrono::steady_clock;
-  bool terminal_;
-  Clock::time_point start_;
-  bool drawn_ = false;
-  double next_line_ = 0;
-};
 
 int RunTrain(const std::string& config, const std::string& log_path) {
   const std::string yaml = ReadFile(config);
@@ -97,18 +34,8 @@ int RunTrain(const std::string& config, const std::string& log_path) {
     log_file = std::make_unique<std::ofstream>(log_path, std::ios::app);
     if (!*log_file) throw std::runtime_error("cannot write '" + log_path + "'");
   }
-  ProgressDisplay display(::isatty(STDERR_FILENO) == 1);
-  CallObserver observer;
-  observer.log = [&](int, const std::string& line) {
-    display.Line(line);
-    if (log_file) *log_file << line << std::endl;
-  };
-  observer.progress = [&](double fraction, const std::string&) { return display.Update(fraction); };
-  std::signal(SIGINT, RequestStop);
-  std::signal(SIGTERM, RequestStop);
   bool cancelled = false;
-  const std::string reply_json = CallJsonObserved("Train", request, observer, &cancelled);
-  display.Finish();
+  const std::string reply_json = CallWithProgress("Train", request, log_file.get(), &cancelled);
   const YAML::Node reply = ParseJson(reply_json);
   const auto count = [&](const char* key) {
     return reply[key] ? static_cast<long long>(AsDouble(reply[key])) : 0LL;

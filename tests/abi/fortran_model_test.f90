@@ -5,12 +5,12 @@
 program fortran_model_test
   use, intrinsic :: iso_c_binding, only: c_double
   use nucleate
+  use abi_test_support
   implicit none
   real(c_double) :: lattice(3, 3), frac(3, 2), score(3, 2), lattice_noise(6), last_loss
-  integer :: status, failures, steps_done, epochs_done, parameters, unit
+  integer :: status, steps_done, epochs_done, parameters, unit
   character(len=:), allocatable :: message
 
-  failures = 0
   call write_cif('structures/NaCl.cif', 'NaCl', 'Na', 3.98808d0, 60d0)
   call write_cif('structures/CsCl.cif', 'CsCl', 'Cs', 4.12d0, 90d0)
   open(newunit=unit, file='train.yaml', status='replace', action='write')
@@ -55,41 +55,5 @@ program fortran_model_test
 
   if (failures > 0) error stop 1
   print '(a)', 'fortran model test: all checks passed'
-
-contains
-
-  ! A P1 CIF of a two-atom cell with equal axes a and equal angles: atom 1 at the origin,
-  ! Cl at (1/2, 1/2, 1/2).
-  subroutine write_cif(path, name, cation, a, angle)
-    character(len=*), intent(in) :: path, name, cation
-    real(c_double), intent(in) :: a, angle
-    integer :: u
-    open(newunit=u, file=path, status='replace', action='write')
-    write(u, '(a)') 'data_' // name
-    write(u, '(a, f10.5)') '_cell_length_a ', a
-    write(u, '(a, f10.5)') '_cell_length_b ', a
-    write(u, '(a, f10.5)') '_cell_length_c ', a
-    write(u, '(a, f10.5)') '_cell_angle_alpha ', angle
-    write(u, '(a, f10.5)') '_cell_angle_beta ', angle
-    write(u, '(a, f10.5)') '_cell_angle_gamma ', angle
-    write(u, '(a)') 'loop_'
-    write(u, '(a)') '_atom_site_label'
-    write(u, '(a)') '_atom_site_type_symbol'
-    write(u, '(a)') '_atom_site_fract_x'
-    write(u, '(a)') '_atom_site_fract_y'
-    write(u, '(a)') '_atom_site_fract_z'
-    write(u, '(a)') cation // '1 ' // cation // ' 0 0 0'
-    write(u, '(a)') 'Cl1 Cl 0.5 0.5 0.5'
-    close(u)
-  end subroutine
-
-  subroutine expect(condition, what)
-    logical, intent(in) :: condition
-    character(len=*), intent(in) :: what
-    if (.not. condition) then
-      print '(a)', 'FAILED: ' // what
-      failures = failures + 1
-    end if
-  end subroutine
 
 end program

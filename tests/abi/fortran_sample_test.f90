@@ -12,6 +12,7 @@ program fortran_sample_test
   use, intrinsic :: iso_c_binding, only: c_double
   use, intrinsic :: ieee_arithmetic, only: ieee_is_finite
   use nucleate
+  use abi_test_support
   implicit none
   real(c_double), allocatable :: lattices(:, :, :), frac(:, :), lattices2(:, :, :), frac2(:, :)
   integer, allocatable :: numbers(:), counts(:), space_group(:), numbers2(:), counts2(:)
@@ -19,10 +20,9 @@ program fortran_sample_test
   logical, allocatable :: valid(:), valid2(:)
   real(c_double), allocatable :: cell_lattices(:, :, :), cell_frac(:, :)
   integer, allocatable :: cell_numbers(:), cell_counts(:)
-  integer :: status, failures, k, first, last
+  integer :: status, k, first, last
   character(len=:), allocatable :: message, nacl, conditioned
 
-  failures = 0
   call write_cif('structures/NaCl.cif', 'NaCl', 'Na', 3.98808d0, 60d0)
   call write_cif('structures/CsCl.cif', 'CsCl', 'Cs', 4.12d0, 90d0)
   ! Species given (the composition is fixed), generated species, and a crystal-system condition.
@@ -239,31 +239,6 @@ contains
                   size(valid2) == size(valid) .and. size(space_group2) == size(space_group)
   end function
 
-  ! A P1 CIF of a two-atom cell with equal axes a and equal angles: atom 1 at the origin,
-  ! Cl at (1/2, 1/2, 1/2).
-  subroutine write_cif(path, name, cation, a, angle)
-    character(len=*), intent(in) :: path, name, cation
-    real(c_double), intent(in) :: a, angle
-    integer :: u
-    open(newunit=u, file=path, status='replace', action='write')
-    write(u, '(a)') 'data_' // name
-    write(u, '(a, f10.5)') '_cell_length_a ', a
-    write(u, '(a, f10.5)') '_cell_length_b ', a
-    write(u, '(a, f10.5)') '_cell_length_c ', a
-    write(u, '(a, f10.5)') '_cell_angle_alpha ', angle
-    write(u, '(a, f10.5)') '_cell_angle_beta ', angle
-    write(u, '(a, f10.5)') '_cell_angle_gamma ', angle
-    write(u, '(a)') 'loop_'
-    write(u, '(a)') '_atom_site_label'
-    write(u, '(a)') '_atom_site_type_symbol'
-    write(u, '(a)') '_atom_site_fract_x'
-    write(u, '(a)') '_atom_site_fract_y'
-    write(u, '(a)') '_atom_site_fract_z'
-    write(u, '(a)') cation // '1 ' // cation // ' 0 0 0'
-    write(u, '(a)') 'Cl1 Cl 0.5 0.5 0.5'
-    close(u)
-  end subroutine
-
   ! The signed volume spanned by the columns a, b, c: a . (b x c).
   pure function determinant(m) result(d)
     real(c_double), intent(in) :: m(3, 3)
@@ -278,14 +253,5 @@ contains
     character(len=1) :: text
     write(text, '(i1)') k
   end function
-
-  subroutine expect(condition, what)
-    logical, intent(in) :: condition
-    character(len=*), intent(in) :: what
-    if (.not. condition) then
-      print '(a)', 'FAILED: ' // what
-      failures = failures + 1
-    end if
-  end subroutine
 
 end program

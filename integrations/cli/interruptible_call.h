@@ -1,0 +1,17 @@
+// A long method (Train, Sample) run from the command line: progress on stderr and in the log
+// file, library log lines in both, and SIGINT / SIGTERM (Ctrl-C, or a batch scheduler's warning
+// before the time limit) turned into a cancellation at the next progress report, so the method
+// returns what it finished.
+#pragma once
+
+#include <ostream>
+#include <string>
+
+namespace nucleate::cli {
+
+// The reply JSON; *cancelled tells whether the call was cancelled. `log` may be null. Errors as
+// CallJsonObserved raises them, after the progress line is ended.
+std::string CallWithProgress(const std::string& method, const std::string& request_json,
+                             std::ostream* log, bool* cancelled);
+
+}  // namespace nucleate::cli
