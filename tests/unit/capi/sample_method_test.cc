@@ -11,6 +11,7 @@
 #include "call_helpers.h"
 #include "core/model/bundle/bundle_file.h"
 #include "nucleate/v1/sample.pb.h"
+#include "tests/unit/bundle/bundle_fixture.h"
 #include "tests/unit/sample/random_network.h"
 
 namespace nucleate::test {
@@ -22,15 +23,16 @@ namespace pb = google::protobuf;
 class SampleMethod : public ::testing::Test {
  protected:
   static void SetUpTestSuite() {
-    dir_ = new fs::path(fs::temp_directory_path() / "nucleate_sample_method_test");
-    fs::create_directories(*dir_);
+    // A folder of this process's own: ctest runs each test in its own process, several at once.
+    directory_ = new model::testing::TemporaryDirectory;
+    dir_ = new fs::path(directory_->path());
     model::SaveModelBundle(Given(), sample::testing::RandomNetwork());
     model::SaveModelBundle(Absorbing(),
                            sample::testing::RandomNetwork(model::SpeciesMode::kAbsorbing));
   }
   static void TearDownTestSuite() {
-    fs::remove_all(*dir_);
     delete dir_;
+    delete directory_;
   }
   static std::string Given() { return (*dir_ / "given.nucleate").string(); }
   static std::string Absorbing() { return (*dir_ / "absorbing.nucleate").string(); }
@@ -44,8 +46,10 @@ class SampleMethod : public ::testing::Test {
     return reply;
   }
 
+  static model::testing::TemporaryDirectory* directory_;
   static fs::path* dir_;
 };
+model::testing::TemporaryDirectory* SampleMethod::directory_ = nullptr;
 fs::path* SampleMethod::dir_ = nullptr;
 
 // Every finished candidate is in exactly one group, each group has one representative (its

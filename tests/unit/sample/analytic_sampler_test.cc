@@ -26,6 +26,8 @@ struct SamplerCase {
   std::string name;
   SamplerSettings settings;
 };
+// Test names in ctest show the case's name, not its bytes.
+void PrintTo(const SamplerCase& c, std::ostream* out) { *out << c.name; }
 
 SamplerSettings Make(SamplerKind kind, long long steps, double eta = 0,
                      DdpmVariance variance = DdpmVariance::kPosterior) {
@@ -165,6 +167,7 @@ struct DeterministicCase {
   SamplerSettings settings;
   double tolerance;
 };
+void PrintTo(const DeterministicCase& c, std::ostream* out) { *out << c.name; }
 
 class Deterministic : public ::testing::TestWithParam<DeterministicCase> {};
 

@@ -14,6 +14,7 @@
 #include "core/structure/io/cif_writer.h"
 #include "core/train/train_config.h"
 #include "core/train/trainer.h"
+#include "tests/unit/bundle/bundle_fixture.h"
 
 namespace nucleate::sample {
 namespace {
@@ -41,8 +42,9 @@ structure::Crystal CsCl() {
 // Trains the two-structure model once per species mode: 3000 steps (6.5 s measured for the
 // composition-given model).
 model::ModelBundle TrainOverfitModel(const std::string& species) {
-  const fs::path dir = fs::temp_directory_path() / ("nucleate_overfit_" + species);
-  fs::remove_all(dir);
+  // A folder of this process's own: ctest runs each test in its own process, several at once.
+  const model::testing::TemporaryDirectory temporary;
+  const fs::path dir = temporary.path();
   fs::create_directories(dir / "structures");
   std::ofstream(dir / "structures" / "NaCl.cif") << structure::io::WriteCifP1(NaCl());
   std::ofstream(dir / "structures" / "CsCl.cif") << structure::io::WriteCifP1(CsCl());
@@ -63,9 +65,7 @@ output: {model: model.nucleate}
 )", dir.string(), "overfit.yaml");
   const train::TrainResult r = train::Train(settings);
   EXPECT_LT(r.last_loss, 1.0);
-  model::ModelBundle bundle = model::LoadModelBundle((dir / "model.nucleate").string());
-  fs::remove_all(dir);
-  return bundle;
+  return model::LoadModelBundle((dir / "model.nucleate").string());
 }
 
 const model::ModelBundle& GivenSpeciesModel() {
@@ -116,6 +116,7 @@ struct SamplerName {
   SamplerKind kind;
   const char* name;
 };
+void PrintTo(const SamplerName& c, std::ostream* out) { *out << c.name; }
 
 class OverfitModel : public ::testing::TestWithParam<SamplerName> {};
 
