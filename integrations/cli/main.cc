@@ -8,6 +8,7 @@
 #include <CLI/CLI.hpp>
 
 #include "abi_client.h"
+#include "assess_command.h"
 #include "check_command.h"
 #include "convert_command.h"
 #include "match_command.h"
@@ -51,7 +52,7 @@ void AddCallCommand(CLI::App& app, std::function<int()>* run) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  CLI::App app{"nucleate: design noise schedules; train denoisers; sample candidates; check, match, deduplicate and convert crystal structures"};
+  CLI::App app{"nucleate: design noise schedules; train denoisers; sample candidates; assess models; check, match, deduplicate and convert crystal structures"};
   app.require_subcommand(1);
   std::function<int()> run;
   AddVersionCommand(app, &run);
@@ -65,6 +66,7 @@ int main(int argc, char** argv) {
   nucleate::cli::AddTrainCommand(app, &run);
   nucleate::cli::AddModelCommand(app, &run);
   nucleate::cli::AddSampleCommand(app, &run);
+  nucleate::cli::AddAssessCommand(app, &run);
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

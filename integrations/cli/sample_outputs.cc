@@ -5,6 +5,7 @@
 
 #include "abi_client.h"
 #include "atomic_file.h"
+#include "html_report.h"
 #include "json_reply.h"
 
 namespace nucleate::cli {
@@ -13,6 +14,7 @@ namespace {
 constexpr const char* kMultiCifName = "candidates.cif";
 constexpr const char* kMultiSymmetrisedName = "candidates-symmetrised.cif";
 constexpr const char* kXyzName = "candidates.xyz";
+constexpr const char* kReportName = "report.html";
 constexpr const char* kSummaryName = "summary.jsonl";
 
 std::string CifName(std::uint32_t index) { return "sample-" + std::to_string(index) + ".cif"; }
@@ -120,6 +122,7 @@ std::vector<std::string> PlannedOutputNames(const SamplePlan& plan) {
     }
   }
   names.push_back(kXyzName);
+  names.push_back(kReportName);
   names.push_back(kSummaryName);
   return names;
 }
@@ -180,7 +183,9 @@ std::vector<std::string> WriteSampleOutputs(const SampleOutputOptions& options,
             caution + Converted(symmetrised, "STRUCTURE_FORMAT_CIF_SYMMETRISED"));
     }
   }
-  write(kXyzName, Converted(structures, "STRUCTURE_FORMAT_EXTXYZ"));
+  const std::string xyz = Converted(structures, "STRUCTURE_FORMAT_EXTXYZ");
+  write(kXyzName, xyz);
+  write(kReportName, SampleReportHtml(*result, xyz, "nucleate candidates"));
   std::string summary;
   for (const CandidateRow& row : result->rows) summary += SummaryLine(row, result->caution);
   write(kSummaryName, summary);

@@ -1,6 +1,7 @@
 // The files of `nucleate sample` in the out folder: one CIF per candidate (sample-<index>.cif) or
 // one multi-block candidates.cif, the symmetrised CIFs when asked, candidates.xyz (every finished
-// candidate, one extended XYZ frame each) and summary.jsonl (one JSON object per candidate).
+// candidate, one extended XYZ frame each), report.html (a table with flags and a drawing of each
+// cell) and summary.jsonl (one JSON object per candidate).
 // Every file is written atomically, summary.jsonl last.
 #pragma once
 

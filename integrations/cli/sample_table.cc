@@ -14,8 +14,10 @@ std::string Symbols(const YAML::Node& list) {
   return text;
 }
 
+}  // namespace
+
 // Toxic and radioactive elements: flags for handling, not failures.
-std::string Flags(const YAML::Node& report) {
+std::string HandlingFlags(const YAML::Node& report) {
   std::string flags;
   const std::string toxic = Symbols(report["toxic_elements"]);
   const std::string radioactive = Symbols(report["radioactive_elements"]);
@@ -24,13 +26,11 @@ std::string Flags(const YAML::Node& report) {
   return flags.empty() ? "-" : flags;
 }
 
-std::string SpaceGroup(const YAML::Node& report) {
+std::string SpaceGroupText(const YAML::Node& report) {
   const int number = report["space_group_number"].as<int>(0);
   if (number <= 0) return "none";
   return report["international_symbol"].as<std::string>("?") + " (" + std::to_string(number) + ")";
 }
-
-}  // namespace
 
 void PrintSampleTable(const SampleResult& result, std::FILE* out) {
   std::fprintf(out, "%s\n\n", result.caution.c_str());
@@ -45,9 +45,9 @@ void PrintSampleTable(const SampleResult& result, std::FILE* out) {
     const std::string duplicate = row.duplicate_of >= 0 ? std::to_string(row.duplicate_of) : "-";
     std::fprintf(out, "%6u  %-16s %5d  %-16s %7.3f A  %6.3f g/cm3  %-5s  %-12s  %s\n", row.index,
                  r["formula"].as<std::string>("").c_str(), r["num_atoms"].as<int>(0),
-                 SpaceGroup(r).c_str(), r["min_distance"] ? AsDouble(r["min_distance"]) : 0.0,
+                 SpaceGroupText(r).c_str(), r["min_distance"] ? AsDouble(r["min_distance"]) : 0.0,
                  r["density"] ? AsDouble(r["density"]) : 0.0,
-                 r["valid"].as<bool>(false) ? "yes" : "no", duplicate.c_str(), Flags(r).c_str());
+                 r["valid"].as<bool>(false) ? "yes" : "no", duplicate.c_str(), HandlingFlags(r).c_str());
     for (const YAML::Node& problem : r["problems"]) {
       std::fprintf(out, "        problem: %s\n", problem["message"].as<std::string>("").c_str());
     }

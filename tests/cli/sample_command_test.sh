@@ -97,6 +97,12 @@ done
 expect $? "no fourth CIF for --count 3"
 [[ -s comp/candidates.xyz ]]
 expect $? "comp/candidates.xyz written"
+# The HTML report: self-contained (no scripts, no external links), the caution, one drawing per
+# candidate.
+[[ $(grep -o '<svg' comp/report.html | wc -l) -eq 3 ]]
+expect $? "report.html draws the 3 cells"
+grep -q 'hypotheses' comp/report.html && ! grep -qi '<script\|src=\|href=' comp/report.html
+expect $? "report.html carries the caution and nothing external"
 [[ $(lines comp/summary.jsonl) -eq 3 ]]
 expect $? "summary.jsonl has 3 lines, has $(lines comp/summary.jsonl)"
 for key in index formula num_atoms valid problems space_group_number min_distance density group \
