@@ -5,6 +5,7 @@
 #include "codec.h"
 #include "error_detail.h"
 #include "core/common/error.h"
+#include "methods/assess_method.h"
 #include "methods/check_method.h"
 #include "methods/convert_method.h"
 #include "methods/match_methods.h"
@@ -75,6 +76,7 @@ const std::vector<MethodEntry>& Methods() {
       ModelInfoMethod(),
       EvaluateMethod(),
       SampleMethod(),
+      AssessMethod(),
   };
   return kMethods;
 }

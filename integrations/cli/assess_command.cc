@@ -38,11 +38,11 @@ struct AssessFlags {
 // Request field -> the flag that sets it, so a refusal names the flag too.
 const std::map<std::string, std::string>& FlagOfField() {
   static const std::map<std::string, std::string> flags = {
-      {"model_path", "--model"},         {"config_yaml", "--config"},
-      {"held_out", "--held-out"},        {"training", "--training"},
+      {"model_path", "--model"},          {"config_yaml", "--config"},
+      {"held_out", "--held-out"},         {"training", "--training"},
       {"compositions", "--compositions"}, {"candidates_per_composition", "--candidates"},
-      {"de_novo_count", "--de-novo"},    {"sampler.kind", "--sampler"},
-      {"sampler.steps", "--steps"},      {"threads", "--threads"},
+      {"de_novo_count", "--de-novo"},     {"sampler.kind", "--sampler"},
+      {"sampler.steps", "--steps"},       {"threads", "--threads"},
   };
   return flags;
 }
@@ -63,29 +63,33 @@ std::string Request(const AssessFlags& flags) {
   std::string request = "{\"model_path\":" + JsonQuote(flags.model);
   if (!flags.config.empty()) {
     const std::filesystem::path path(flags.config);
-    request += ",\"config_yaml\":" + JsonQuote(ReadFile(flags.config)) +
-               ",\"config_directory\":" +
+    request += ",\"config_yaml\":" + JsonQuote(ReadFile(flags.config)) + ",\"config_directory\":" +
                JsonQuote(path.has_parent_path() ? path.parent_path().string() : ".") +
                ",\"config_name\":" + JsonQuote(flags.config);
   }
   int unreadable = 0;
-  if (!flags.held_out.empty()) request += ",\"held_out\":" + FileInputsJson(flags.held_out, &unreadable);
-  if (!flags.training.empty()) request += ",\"training\":" + FileInputsJson(flags.training, &unreadable);
+  if (!flags.held_out.empty()) {
+    request += ",\"held_out\":" + FileInputsJson(flags.held_out, &unreadable);
+  }
+  if (!flags.training.empty()) {
+    request += ",\"training\":" + FileInputsJson(flags.training, &unreadable);
+  }
   if (unreadable > 0) {
     throw std::runtime_error(std::to_string(unreadable) + " structure files could not be read");
   }
-  if (Given(flags, "--compositions")) request += ",\"compositions\":" + std::to_string(flags.compositions);
+  if (Given(flags, "--compositions")) {
+    request += ",\"compositions\":" + std::to_string(flags.compositions);
+  }
   if (Given(flags, "--candidates")) {
     request += ",\"candidates_per_composition\":" + std::to_string(flags.candidates);
   }
   if (Given(flags, "--de-novo")) request += ",\"de_novo_count\":" + std::to_string(flags.de_novo);
   std::string sampler;
   if (Given(flags, "--sampler")) {
-    const std::map<std::string, std::string> kinds = {
-        {"ddpm", "SAMPLER_KIND_DDPM"},
-        {"ddim", "SAMPLER_KIND_DDIM"},
-        {"pc", "SAMPLER_KIND_PREDICTOR_CORRECTOR"},
-        {"ode", "SAMPLER_KIND_PROBABILITY_FLOW"}};
+    const std::map<std::string, std::string> kinds = {{"ddpm", "SAMPLER_KIND_DDPM"},
+                                                      {"ddim", "SAMPLER_KIND_DDIM"},
+                                                      {"pc", "SAMPLER_KIND_PREDICTOR_CORRECTOR"},
+                                                      {"ode", "SAMPLER_KIND_PROBABILITY_FLOW"}};
     sampler += "\"kind\":\"" + kinds.at(flags.sampler) + "\"";
   }
   if (Given(flags, "--steps")) {
@@ -117,8 +121,9 @@ std::string Request(const AssessFlags& flags) {
 
 int RunAssess(const AssessFlags& flags) {
   if (flags.config.empty() && flags.held_out.empty()) {
-    throw CLI::ValidationError("--config", "required: the model's training configuration "
-                                           "(or --held-out structure files)");
+    throw CLI::ValidationError("--config",
+                               "required: the model's training configuration "
+                               "(or --held-out structure files)");
   }
   const std::string request = Request(flags);
   std::unique_ptr<std::ofstream> log_file;
@@ -175,40 +180,48 @@ void AddAssessCommand(CLI::App& app, std::function<int()>* run) {
       command
           ->add_option("--held-out", flags->held_out,
                        "Instead of --config: held-out structure files (CIF, extended XYZ, JSON)")
-          ->type_name("FILE...")
+          ->type_name("FILE")
           ->excludes(config);
   command
       ->add_option("--training", flags->training,
                    "With --held-out: training structure files, for novelty")
-      ->type_name("FILE...")
+      ->type_name("FILE")
       ->needs(held_out);
   flags->options["--compositions"] =
-      command->add_option("--compositions", flags->compositions,
-                          "Held-out compositions assessed, the first N by formula (100)")
+      command
+          ->add_option("--compositions", flags->compositions,
+                       "Held-out compositions assessed, the first N by formula (100)")
           ->type_name("N");
   flags->options["--candidates"] =
-      command->add_option("--candidates", flags->candidates,
-                          "Candidates per composition, K (20)")
+      command->add_option("--candidates", flags->candidates, "Candidates per composition, K (20)")
           ->type_name("K");
   flags->options["--de-novo"] =
-      command->add_option("--de-novo", flags->de_novo,
-                          "De novo candidates, for models trained with species: absorbing (0)")
+      command
+          ->add_option("--de-novo", flags->de_novo,
+                       "De novo candidates, for models trained with species: absorbing (0)")
           ->type_name("D");
   flags->options["--sampler"] =
-      command->add_option("--sampler", flags->sampler, "ddpm, ddim, pc (predictor-corrector) or ode (ddpm)")
+      command
+          ->add_option("--sampler", flags->sampler,
+                       "ddpm, ddim, pc (predictor-corrector) or ode (ddpm)")
           ->type_name("NAME")
           ->check(CLI::IsMember({"ddpm", "ddim", "pc", "ode"}));
   flags->options["--steps"] =
-      command->add_option("--steps", flags->steps,
-                          "Reverse steps, evenly respaced (default: the model's)")
+      command
+          ->add_option("--steps", flags->steps,
+                       "Reverse steps, evenly respaced (default: the model's)")
           ->type_name("N");
   command->add_option("--seed", flags->seed, "Random seed, 0..4294967295 (0)")->type_name("S");
   flags->options["--threads"] =
-      command->add_option("--threads", flags->threads,
-                          "Threads, 0 = every core (0); the figures do not depend on it")
+      command
+          ->add_option("--threads", flags->threads,
+                       "Threads, 0 = every core (0); the figures do not depend on it")
           ->type_name("T");
-  command->add_flag("--json", flags->json, "Print the Assess reply (protobuf JSON) instead of the table");
-  command->add_option("--log", flags->log, "Also append progress, log lines and the table to this file")
+  command->add_flag("--json", flags->json,
+                    "Print the Assess reply (protobuf JSON) instead of the table");
+  command
+      ->add_option("--log", flags->log,
+                   "Also append progress, log lines and the table to this file")
       ->type_name("FILE");
   command->callback([flags, run] { *run = [flags] { return RunAssess(*flags); }; });
 }

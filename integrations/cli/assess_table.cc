@@ -15,7 +15,9 @@ std::string Format(const char* format, double value) {
   return text;
 }
 
-long long Count(const YAML::Node& node) { return node ? static_cast<long long>(AsDouble(node)) : 0; }
+long long Count(const YAML::Node& node) {
+  return node ? static_cast<long long>(AsDouble(node)) : 0;
+}
 
 double Real(const YAML::Node& node) {
   return node ? AsDouble(node) : std::numeric_limits<double>::quiet_NaN();
@@ -30,15 +32,16 @@ std::string Number(double value) { return std::isnan(value) ? "n/a" : Format("%.
 
 // "7 of 8 compositions".
 std::string OfTotal(const YAML::Node& fraction, const std::string& unit) {
-  return std::to_string(Count(fraction["count"])) + " of " + std::to_string(Count(fraction["total"])) +
-         " " + unit;
+  return std::to_string(Count(fraction["count"])) + " of " +
+         std::to_string(Count(fraction["total"])) + " " + unit;
 }
 
 class Table {
  public:
   void Row(const std::string& metric, const std::string& value, const std::string& size) {
     char line[256];
-    std::snprintf(line, sizeof line, "%-48s %9s   %s\n", metric.c_str(), value.c_str(), size.c_str());
+    std::snprintf(line, sizeof line, "%-48s %9s   %s\n", metric.c_str(), value.c_str(),
+                  size.c_str());
     text_ += line;
   }
   const std::string& Text() const { return text_; }
@@ -83,8 +86,9 @@ std::string AssessTable(const std::string& reply_json) {
   std::string out = r["caution"].as<std::string>("") + "\n\n";
   const long long k = Count(r["candidates_per_composition"]);
   out += "held out: " + std::to_string(Count(r["held_out_structures"])) + " structures in " +
-         std::to_string(Count(r["held_out_compositions"])) + " compositions; training: " +
-         std::to_string(Count(r["training_structures"])) + " structures";
+         std::to_string(Count(r["held_out_compositions"])) +
+         " compositions; training: " + std::to_string(Count(r["training_structures"])) +
+         " structures";
   const std::string hash = r["dataset_hash"].as<std::string>("");
   if (!hash.empty()) out += "; dataset hash " + hash.substr(0, 12) + "... verified";
   out += "\n\n";
@@ -98,11 +102,11 @@ std::string AssessTable(const std::string& reply_json) {
     for (const YAML::Node& row : rows) {
       const std::string matches =
           std::to_string(Count(row["matches"])) + "/" + std::to_string(Count(row["finished"]));
-      std::snprintf(line, sizeof line, "%-16s %4lld %6lld  %-9s %-6s %9s  %s\n",
-                    row["formula"].as<std::string>("").c_str(), Count(row["formula_units"]),
-                    Count(row["atoms"]), matches.c_str(),
-                    row["matched_first"].as<bool>(false) ? "yes" : "no",
-                    Number(Real(row["best_rms"])).c_str(), row["target"].as<std::string>("").c_str());
+      std::snprintf(
+          line, sizeof line, "%-16s %4lld %6lld  %-9s %-6s %9s  %s\n",
+          row["formula"].as<std::string>("").c_str(), Count(row["formula_units"]),
+          Count(row["atoms"]), matches.c_str(), row["matched_first"].as<bool>(false) ? "yes" : "no",
+          Number(Real(row["best_rms"])).c_str(), row["target"].as<std::string>("").c_str());
       out += line;
     }
   }

@@ -6,54 +6,7 @@
 # Usage: sample_command_test.sh NUCLEATE_EXECUTABLE
 set -u
 
-if [[ $# -ne 1 ]]; then
-  echo "usage: $0 NUCLEATE_EXECUTABLE" >&2
-  exit 2
-fi
-cli=$(realpath "$1")
-work=$(mktemp -d)
-trap 'rm -rf "$work"' EXIT
-cd "$work" || exit 1
-
-failures=0
-checks=0
-# expect CONDITION_EXIT_CODE WHAT: counts a check, prints WHAT when it failed.
-expect() {
-  checks=$((checks + 1))
-  if [[ $1 -ne 0 ]]; then
-    failures=$((failures + 1))
-    echo "FAILED: $2"
-  fi
-}
-# A one-structure P1 CIF: name, a, angle (equal axes and angles), then "symbol x y z" per site.
-write_cif() {
-  local path=$1 name=$2 a=$3 angle=$4
-  shift 4
-  {
-    echo "data_$name"
-    echo "_cell_length_a $a"
-    echo "_cell_length_b $a"
-    echo "_cell_length_c $a"
-    echo "_cell_angle_alpha $angle"
-    echo "_cell_angle_beta $angle"
-    echo "_cell_angle_gamma $angle"
-    echo "loop_"
-    echo "_atom_site_label"
-    echo "_atom_site_type_symbol"
-    echo "_atom_site_fract_x"
-    echo "_atom_site_fract_y"
-    echo "_atom_site_fract_z"
-    local site n=0
-    for site in "$@"; do
-      n=$((n + 1))
-      read -r symbol x y z <<<"$site"
-      echo "$symbol$n $symbol $x $y $z"
-    done
-  } >"$path"
-}
-# The JSON array under KEY in a compact JSON text, e.g. [11,17].
-json_array() { grep -o "\"$1\":\[[^]]*\]" | head -n 1 | sed 's/^[^[]*//'; }
-lines() { if [[ -f $1 ]]; then wc -l <"$1"; else echo 0; fi; }
+source "$(dirname "${BASH_SOURCE[0]}")/cli_test_support.sh" "$@"
 
 # --- Two tiny models -------------------------------------------------------------------------
 # Primitive rock-salt NaCl (a = 5.64 A, primitive 3.98808 A at 60 degrees), CsCl-type CsCl

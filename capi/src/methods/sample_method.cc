@@ -18,12 +18,6 @@
 #include "nucleate/v1/sample.pb.h"
 
 namespace nucleate::capi {
-namespace {
-
-constexpr const char* kCaution =
-    "Candidates are hypotheses from a statistical model, not predictions of stable compounds: "
-    "confirm them with DFT and experiment, and follow local safety rules and licensed practice "
-    "for any element flagged toxic or radioactive.";
 
 sample::SamplerSettings SamplerFromMessage(const v1::SamplerSettings& m) {
   sample::SamplerSettings s;  // core's defaults are the only defaults
@@ -62,6 +56,14 @@ sample::SampleLimits LimitsFromMessage(const v1::SampleLimits& m) {
   if (l.max_memory_bytes < 1) throw InvalidArgument("limits.max_memory_bytes", "must be >= 1");
   return l;
 }
+
+const char* CandidateCaution() {
+  return "Candidates are hypotheses from a statistical model, not predictions of stable compounds: "
+         "confirm them with DFT and experiment, and follow local safety rules and licensed "
+         "practice for any element flagged toxic or radioactive.";
+}
+
+namespace {
 
 // The structure limits of this request live in field structure_limits (FromMessage names its
 // errors "limits.<field>", the name Check and Match use).
@@ -145,7 +147,7 @@ void HandleSample(const v1::SampleRequest& request, v1::SampleReply* reply,
   RequirePositiveFinite("symprec", symprec);
   const match::MatchTolerances tolerances = TolerancesFromMessage(request.tolerances());
   const sample::SampleJob job = JobFromMessage(request, input_limits);
-  reply->set_caution(kCaution);
+  reply->set_caution(CandidateCaution());
 
   const model::ModelBundle bundle = model::LoadModelBundle(request.model_path());
   const sample::SampleRun run = sample::RunSampling(
