@@ -36,7 +36,8 @@ module nucleate
   public :: nucleate_version, nucleate_call_json, nucleate_reply_reals
   public :: nucleate_variance_schedule, nucleate_sigma_schedule
   public :: nucleate_check_structure, nucleate_match_structures, nucleate_dedup_structures
-  public :: nucleate_read_structures, nucleate_structure_json
+  public :: nucleate_read_structures, nucleate_structure_json, nucleate_structure_text
+  public :: nucleate_element_flags
   public :: nucleate_train, nucleate_model_parameters, nucleate_evaluate, nucleate_sample
   public :: nucleate_sample_request
 
@@ -447,7 +448,6 @@ contains
     character(len=:), allocatable, intent(out) :: message
     character(len=:), allocatable :: content, reply
     real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
-    real(c_double), allocatable :: error_codes(:)
     integer :: unit, size_bytes, io, k, m
     allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0))
     open(newunit=unit, file=path, access='stream', form='unformatted', status='old', &
@@ -470,14 +470,8 @@ contains
                             '","content":"' // base64(content) // &
                             '"}}],"format":"STRUCTURE_FORMAT_JSON"}', reply, status, message)
     if (status /= NUCLEATE_OK) return
-    call nucleate_reply_reals('Convert', reply, 'unreadable.error.code', error_codes, status, &
-                              message)
+    call convert_error(reply, status, message)
     if (status /= NUCLEATE_OK) return
-    if (size(error_codes) > 0) then
-      status = nint(error_codes(1))
-      message = extract_error_message(reply)
-      return
-    end if
     call nucleate_reply_reals('Convert', reply, 'structures.lattice', lattice_values, status, message)
     if (status /= NUCLEATE_OK) return
     call nucleate_reply_reals('Convert', reply, 'structures.frac_coords', frac_values, status, &
@@ -499,6 +493,75 @@ contains
       if (status /= NUCLEATE_OK) return
       counts(k) = size(number_values)
     end do
+  end subroutine
+
+  !> One structure written by the library as the text of a file in `format`: 'cif' (P1, every atom
+  !> listed), 'cif_symmetrised' (the asymmetric unit and the operations of the space group found
+  !> at 0.1 angstrom) or 'extxyz' (one extended XYZ frame: the cell in the comment line's
+  !> Lattice="...", then a line per atom with its element symbol and Cartesian position in
+  !> angstrom; every number with the shortest digits that read back exactly). Arguments as for
+  !> nucleate_structure_json. A structure that cannot be written (e.g. a lattice with NaN) gives
+  !> its status and the library's message, and an empty text.
+  subroutine nucleate_structure_text(lattice, frac, numbers, format, text, status, message)
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:)
+    character(len=*), intent(in) :: format
+    character(len=:), allocatable, intent(out) :: text
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    logical :: found
+    text = ''
+    select case (trim(format))
+    case ('cif', 'cif_symmetrised', 'extxyz')
+    case default
+      status = NUCLEATE_ERROR_INVALID_ARGUMENT
+      message = 'nucleate_structure_text: format ''' // trim(format) // &
+                ''' is not one of ''cif'', ''cif_symmetrised'', ''extxyz'''
+      return
+    end select
+    call nucleate_call_json('Convert', '{"inputs":[{"structure":' // &
+                            nucleate_structure_json(lattice, frac, numbers) // &
+                            '}],"format":"STRUCTURE_FORMAT_' // upper(trim(format)) // '"}', &
+                            reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    call convert_error(reply, status, message)
+    if (status /= NUCLEATE_OK) return
+    call json_string_member(reply, 'text', text, found)
+    if (.not. found) then
+      status = NUCLEATE_ERROR_INTERNAL
+      message = 'nucleate_structure_text: the Convert reply has no text'
+    end if
+  end subroutine
+
+  !> The elements of a structure that the library's element tables flag as toxic and as
+  !> radioactive: symbols joined by commas (e.g. 'Cd,Se'), blank when none. Flags are for handling
+  !> under local safety rules and licensed practice, not failures. Arguments as for
+  !> nucleate_structure_json; a structure that cannot be checked gives its status and message.
+  subroutine nucleate_element_flags(lattice, frac, numbers, toxic, radioactive, status, message)
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:)
+    character(len=:), allocatable, intent(out) :: toxic, radioactive
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    character(len=:), allocatable :: reply
+    real(c_double) :: value
+    toxic = ''
+    radioactive = ''
+    call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
+                            nucleate_structure_json(lattice, frac, numbers) // '}]}', reply, &
+                            status, message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('Check', reply, 'reports.error.code', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    if (nint(value) /= NUCLEATE_OK) then
+      status = nint(value)
+      message = extract_error_message(reply)
+      return
+    end if
+    ! One structure, one report: each list's name occurs once in the reply.
+    toxic = json_string_list(reply, 'toxic_elements')
+    radioactive = json_string_list(reply, 'radioactive_elements')
   end subroutine
 
   ! Standard base64 with padding (RFC 4648), as protobuf JSON writes bytes fields.
@@ -524,6 +587,129 @@ contains
       k = k + 4
     end do
   end function
+
+  ! The string value of the first member named `key` in the protobuf JSON text `json`, decoded.
+  ! Inside a JSON string every quote is escaped, so the characters "key":" can only be a member.
+  subroutine json_string_member(json, key, value, found)
+    character(len=*), intent(in) :: json, key
+    character(len=:), allocatable, intent(out) :: value
+    logical, intent(out) :: found
+    integer :: start, last
+    start = index(json, '"' // key // '":"')
+    found = start > 0
+    value = ''
+    if (found) call json_decode_string(json, start + len(key) + 4, value, last)
+  end subroutine
+
+  ! The strings of the array that is the first member named `key` in `json`, joined by commas;
+  ! blank when the array is empty or the member is absent.
+  function json_string_list(json, key) result(joined)
+    character(len=*), intent(in) :: json, key
+    character(len=:), allocatable :: joined, item
+    integer :: at, last
+    joined = ''
+    at = index(json, '"' // key // '":[')
+    if (at == 0) return
+    at = at + len(key) + 4
+    do while (at <= len(json))
+      select case (json(at:at))
+      case ('"')
+        call json_decode_string(json, at + 1, item, last)
+        if (len(joined) > 0) joined = joined // ','
+        joined = joined // item
+        at = last + 1
+      case (']')
+        exit
+      case default  ! the commas (and any spaces) between the strings
+        at = at + 1
+      end select
+    end do
+  end function
+
+  ! Decodes the JSON string whose characters start at json(first:), just after its opening quote,
+  ! into `value` (\u escapes as UTF-8); `last` is the position of its closing quote.
+  subroutine json_decode_string(json, first, value, last)
+    character(len=*), intent(in) :: json
+    integer, intent(in) :: first
+    character(len=:), allocatable, intent(out) :: value
+    integer, intent(out) :: last
+    character(len=len(json)) :: buffer  ! a decoded string is never longer than its JSON
+    integer :: i, n, code, low, io
+    n = 0
+    i = first
+    do while (i <= len(json))
+      if (json(i:i) == '"') exit
+      if (json(i:i) /= '\' .or. i == len(json)) then
+        call put(ichar(json(i:i)))
+        i = i + 1
+        cycle
+      end if
+      i = i + 1
+      select case (json(i:i))
+      case ('n')
+        call put(10)
+      case ('t')
+        call put(9)
+      case ('r')
+        call put(13)
+      case ('b')
+        call put(8)
+      case ('f')
+        call put(12)
+      case ('u')
+        code = hex4(i + 1)
+        i = i + 4
+        ! A surrogate pair (two \u escapes) is one code point above U+FFFF.
+        if (code >= 55296 .and. code <= 56319 .and. i + 6 <= len(json)) then
+          if (json(i + 1:i + 2) == '\u') then
+            low = hex4(i + 3)
+            if (low >= 56320 .and. low <= 57343) then
+              code = 65536 + (code - 55296) * 1024 + (low - 56320)
+              i = i + 6
+            end if
+          end if
+        end if
+        call put_utf8(code)
+      case default  ! \" \\ \/
+        call put(ichar(json(i:i)))
+      end select
+      i = i + 1
+    end do
+    last = i
+    value = buffer(1:n)
+  contains
+    ! The four hexadecimal digits at json(at:), or the code of '?' when they are not.
+    integer function hex4(at)
+      integer, intent(in) :: at
+      hex4 = iachar('?')
+      if (at + 3 > len(json)) return
+      read(json(at:at + 3), '(z4)', iostat=io) hex4
+      if (io /= 0) hex4 = iachar('?')
+    end function
+    subroutine put(byte)
+      integer, intent(in) :: byte
+      n = n + 1
+      buffer(n:n) = char(byte)
+    end subroutine
+    subroutine put_utf8(point)
+      integer, intent(in) :: point
+      if (point < 128) then
+        call put(point)
+      else if (point < 2048) then
+        call put(192 + point / 64)
+        call put(128 + mod(point, 64))
+      else if (point < 65536) then
+        call put(224 + point / 4096)
+        call put(128 + mod(point / 64, 64))
+        call put(128 + mod(point, 64))
+      else
+        call put(240 + point / 262144)
+        call put(128 + mod(point / 4096, 64))
+        call put(128 + mod(point / 64, 64))
+        call put(128 + mod(point, 64))
+      end if
+    end subroutine
+  end subroutine
 
   ! A string's characters escaped for a JSON string literal (quotes and backslashes).
   function json_escape(raw) result(text)
@@ -820,6 +1006,21 @@ contains
                                  ',"first_index":' // json_int(first_index) // ',"count":' // &
                                  json_int(count) // '}', lattices, frac, numbers, counts, valid, &
                                  space_group, status, message)
+  end subroutine
+
+  ! The first unreadable input of a Convert reply as a status and message (NUCLEATE_OK if none).
+  subroutine convert_error(reply, status, message)
+    character(len=*), intent(in) :: reply
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    real(c_double), allocatable :: error_codes(:)
+    call nucleate_reply_reals('Convert', reply, 'unreadable.error.code', error_codes, status, &
+                              message)
+    if (status /= NUCLEATE_OK) return
+    if (size(error_codes) > 0) then
+      status = nint(error_codes(1))
+      message = extract_error_message(reply)
+    end if
   end subroutine
 
 end module nucleate

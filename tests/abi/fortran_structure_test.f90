@@ -13,7 +13,7 @@ program fortran_structure_test
   logical, allocatable :: representative(:)
   integer :: numbers(8), all_numbers(18), space_group, status, failures, unit
   logical :: valid, match
-  character(len=:), allocatable :: message
+  character(len=:), allocatable :: message, text, toxic, radioactive
 
   failures = 0
   lattice = 0
@@ -84,6 +84,45 @@ program fortran_structure_test
   call nucleate_read_structures('no_such_file.cif', read_lattices, read_frac, read_numbers, &
                                 read_counts, status, message)
   call expect(status == NUCLEATE_ERROR_IO, 'a missing file is an I/O error: ' // message)
+
+  ! The library writes a structure as a file's text. Extended XYZ: the comment line's Lattice= holds
+  ! the cell vectors a, b, c and each atom line the symbol and the Cartesian position, frac times
+  ! the cell vectors (common practice, no source); Na at (0, 1/2, 1/2) is at (0, a/2, a/2).
+  call nucleate_structure_text(lattice, frac, numbers, 'extxyz', text, status, message)
+  call expect(status == NUCLEATE_OK, 'extxyz status: ' // message)
+  call expect(index(text, '8' // achar(10)) == 1, 'extxyz starts with the atom count: ' // text)
+  call expect(index(text, 'Lattice="5.64 0 0 0 5.64 0 0 0 5.64"') > 0, &
+              'the cell in Lattice="..." (quotes decoded from the JSON reply): ' // text)
+  call expect(index(text, achar(10) // 'Na 0 2.82 2.82' // achar(10)) > 0, &
+              'the second Na at (0, a/2, a/2) angstrom: ' // text)
+  call expect(index(text, achar(10) // 'Cl 2.82 2.82 2.82' // achar(10)) > 0, &
+              'the first Cl at the cell centre: ' // text)
+  call nucleate_structure_text(lattice, frac, numbers, 'cif', text, status, message)
+  call expect(status == NUCLEATE_OK .and. index(text, 'data_') > 0 .and. &
+              index(text, '_cell_length_a') > 0, 'a CIF data block: ' // message)
+  call nucleate_structure_text(lattice, frac, numbers, 'pdb', text, status, message)
+  call expect(status == NUCLEATE_ERROR_INVALID_ARGUMENT .and. len(text) == 0, 'an unknown format')
+  call expect(index(message, 'pdb') > 0, 'the message names the format: ' // message)
+
+  ! Element flags from the library's tables: none for NaCl; polonium (from the CIF above) has no
+  ! stable isotope (common practice, no source); thallium and uranium in one invented cell: Tl is
+  ! flagged toxic by the criterion written in core/elements/elements.cc (its salts are restricted
+  ! by name as poisons, from memory), U is radioactive (no stable isotope, common practice).
+  call nucleate_element_flags(lattice, frac, numbers, toxic, radioactive, status, message)
+  call expect(status == NUCLEATE_OK .and. len(toxic) == 0 .and. len(radioactive) == 0, &
+              'no flags for NaCl: ' // message // toxic // radioactive)
+  if (size(read_counts) == 2) then
+    call nucleate_element_flags(read_lattices(:, :, 2), read_frac(:, 3:3), read_numbers(3:3), &
+                                toxic, radioactive, status, message)
+    call expect(status == NUCLEATE_OK .and. radioactive == 'Po' .and. len(toxic) == 0, &
+                'Po is radioactive: ' // message // radioactive)
+  end if
+  call nucleate_element_flags(lattice, frac(:, 1:2), [81, 92], toxic, radioactive, status, message)
+  call expect(status == NUCLEATE_OK .and. toxic == 'Tl' .and. radioactive == 'U', &
+              'Tl toxic and U radioactive: ' // message // ' ' // toxic // ' ' // radioactive)
+  call nucleate_element_flags(lattice, frac(:, 1:2), [81, 82], toxic, radioactive, status, message)
+  call expect(toxic == 'Tl,Pb' .or. toxic == 'Pb,Tl', 'Tl and Pb both flagged toxic (EU RoHS ' // &
+              'Directive 2011/65/EU Annex II restricts lead, from memory): ' // toxic)
 
   ! Two atoms on top of each other: checked, found invalid.
   frac(:, 2) = frac(:, 1) + [0.01d0, 0d0, 0d0]

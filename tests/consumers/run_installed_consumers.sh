@@ -5,7 +5,9 @@
 #   3. a find_package project (C and Fortran) builds and passes the ABI tests, the dlopen test
 #      and the conformance runners;
 #   4. a pkg-config Makefile builds and passes the C and Fortran ABI tests;
-#   5. after the whole prefix is moved elsewhere, pkg-config and find_package still work and
+#   5. the examples of integrations/examples (the C program, and the Fortran driver) build as
+#      their own projects with find_package and run on a tiny model (tests/integrations);
+#   6. after the whole prefix is moved elsewhere, pkg-config and find_package still work and
 #      every program loads the moved library.
 # Usage: run_installed_consumers.sh BUILD_DIR SOURCE_DIR LIBDIR CMAKE CC CXX FC|"" VERSION
 #   LIBDIR is CMAKE_INSTALL_LIBDIR; FC empty means the package was built without Fortran.
@@ -65,6 +67,28 @@ run_find_package_consumer() {
   fi
 }
 
+# Builds each example of integrations/examples as the project a user would copy, against
+# `prefix`, and runs them on a tiny model trained with the installed command-line tool.
+run_examples() {
+  local prefix=$1 out=$2 examples="$source/integrations/examples" driver=""
+  "$cmake" -S "$examples/c" -B "$out/c" -DCMAKE_PREFIX_PATH="$prefix" \
+    -DCMAKE_FIND_USE_PACKAGE_REGISTRY=OFF -DCMAKE_C_COMPILER="$cc" >"$out.log" ||
+    { cat "$out.log"; fail "C example: configure"; }
+  "$cmake" --build "$out/c" >>"$out.log" 2>&1 || { cat "$out.log"; fail "C example: build"; }
+  check_loads_from "$out/c/sample_candidates" "$prefix"
+  if [[ $fortran == ON ]]; then
+    "$cmake" -S "$examples/fortran_driver" -B "$out/fortran" -DCMAKE_PREFIX_PATH="$prefix" \
+      -DCMAKE_FIND_USE_PACKAGE_REGISTRY=OFF -DCMAKE_Fortran_COMPILER="$fc" >>"$out.log" ||
+      { cat "$out.log"; fail "Fortran driver: configure"; }
+    "$cmake" --build "$out/fortran" >>"$out.log" 2>&1 ||
+      { cat "$out.log"; fail "Fortran driver: build"; }
+    check_loads_from "$out/fortran/dft_candidates" "$prefix"
+    driver="$out/fortran/dft_candidates"
+  fi
+  bash "$tests/integrations/examples_test.sh" "$prefix/bin/nucleate" "$out/c/sample_candidates" \
+    "$driver" || fail "the examples against $prefix"
+}
+
 # Builds and runs the pkg-config consumer against `prefix`.
 run_pkg_config_consumer() {
   local prefix=$1 out=$2 goals=c
@@ -119,6 +143,9 @@ run_find_package_consumer "$prefix" "$work/find_package"
 
 step "pkg-config consumer"
 run_pkg_config_consumer "$prefix" "$work/pkg_config"
+
+step "examples (integrations/examples) as their own projects"
+run_examples "$prefix" "$work/examples"
 
 moved="$work/elsewhere/moved-prefix"
 step "move the prefix to $moved"
