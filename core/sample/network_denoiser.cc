@@ -31,6 +31,10 @@ NetworkDenoiser::NetworkDenoiser(const model::ModelBundle& bundle,
     throw InvalidArgument("conditions.guidance",
                           "must be finite and >= 0 (0 unconditional, 1 conditional)");
   }
+  for (int k = 0; k < 6; ++k) {
+    statistics_.mean[k] = bundle.normalisation.lattice_mean[k];
+    statistics_.std[k] = bundle.normalisation.lattice_std[k];
+  }
   for (int w = 0; w < std::max(workers, 1); ++w) workspaces_.push_back(std::make_unique<Workspace>());
 }
 
@@ -41,12 +45,7 @@ void NetworkDenoiser::Evaluate(const ChainState& state, bool conditional, long l
   const model::Architecture& a = bundle_.architecture;
   const int n = static_cast<int>(state.frac.size());
   model::NoisyCell& cell = w.cells[0];
-  model::LatticeStatistics statistics;
-  for (int k = 0; k < 6; ++k) {
-    statistics.mean[k] = bundle_.normalisation.lattice_mean[k];
-    statistics.std[k] = bundle_.normalisation.lattice_std[k];
-  }
-  cell.lattice = model::FeaturesToLattice(statistics.Unstandardise(state.lattice), n);
+  cell.lattice = model::FeaturesToLattice(statistics_.Unstandardise(state.lattice), n);
   for (int k = 0; k < 6; ++k) cell.lattice_features[k] = state.lattice[k];
   cell.frac = state.frac;
   cell.tokens = state.tokens;

@@ -34,6 +34,7 @@ class NetworkDenoiser : public DenoisingFunction {
   const model::ModelBundle& bundle_;
   const model::DiffusionProcess& process_;
   model::Denoiser net_;
+  model::LatticeStatistics statistics_;  // the bundle's lattice normalisation
   double guidance_;
   mutable std::vector<std::unique_ptr<Workspace>> workspaces_;
 };

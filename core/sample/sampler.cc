@@ -76,8 +76,13 @@ std::int64_t EstimateSamplingBytes(const model::Architecture& a, int max_atoms, 
   return static_cast<std::int64_t>(per_worker * std::max(threads, 1) + results);
 }
 
-SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunction& denoiser,
-                          const SampleJob& job, const SampleObserver& observer) {
+namespace {
+
+// The chains for one job on a process the caller already built (the network denoiser holds a
+// reference to the same one, so its lazily computed score scales are computed once).
+SampleRun RunSamplingOn(const model::ModelBundle& bundle, const model::DiffusionProcess& process,
+                        const DenoisingFunction& denoiser, const SampleJob& job,
+                        const SampleObserver& observer) {
   const int threads = ResolveThreads(job.threads);
   if (job.count < 1) throw InvalidArgument("count", "must be >= 1");
   if (static_cast<std::int64_t>(job.count) > job.limits.max_count) {
@@ -88,7 +93,6 @@ SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunct
   if (static_cast<std::uint64_t>(job.first_index) + job.count - 1 > 0xffffffffull) {
     throw InvalidArgument("first_index", "first_index + count - 1 must stay below 2^32");
   }
-  const model::DiffusionProcess process(bundle.schedules, bundle.architecture);
   ValidateSamplerSettings(job.sampler, process.steps());
   const std::vector<ReverseLevel> levels = BuildReverseLevels(process, job.sampler.steps);
   const SampleSetup setup(bundle, levels, job);
@@ -211,11 +215,20 @@ SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunct
   return run;
 }
 
+}  // namespace
+
+SampleRun RunSamplingWith(const model::ModelBundle& bundle, const DenoisingFunction& denoiser,
+                          const SampleJob& job, const SampleObserver& observer) {
+  const model::DiffusionProcess process(bundle.schedules, bundle.architecture);
+  return RunSamplingOn(bundle, process, denoiser, job, observer);
+}
+
 SampleRun RunSampling(const model::ModelBundle& bundle, const SampleJob& job,
                       const SampleObserver& observer) {
   const model::DiffusionProcess process(bundle.schedules, bundle.architecture);
-  const NetworkDenoiser denoiser(bundle, process, job.conditions.guidance, ResolveThreads(job.threads));
-  return RunSamplingWith(bundle, denoiser, job, observer);
+  const NetworkDenoiser denoiser(bundle, process, job.conditions.guidance,
+                                 ResolveThreads(job.threads));
+  return RunSamplingOn(bundle, process, denoiser, job, observer);
 }
 
 }  // namespace nucleate::sample

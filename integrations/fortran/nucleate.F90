@@ -448,24 +448,10 @@ contains
     character(len=:), allocatable, intent(out) :: message
     character(len=:), allocatable :: content, reply
     real(c_double), allocatable :: lattice_values(:), frac_values(:), number_values(:)
-    integer :: unit, size_bytes, io, k, m
+    integer :: k, m
     allocate(lattices(3, 3, 0), frac(3, 0), numbers(0), counts(0))
-    open(newunit=unit, file=path, access='stream', form='unformatted', status='old', &
-         action='read', iostat=io)
-    if (io /= 0) then
-      status = NUCLEATE_ERROR_IO
-      message = path // ': cannot open the file'
-      return
-    end if
-    inquire(unit=unit, size=size_bytes)
-    allocate(character(len=max(size_bytes, 0)) :: content)
-    if (size_bytes > 0) read(unit, iostat=io) content
-    close(unit)
-    if (io /= 0) then
-      status = NUCLEATE_ERROR_IO
-      message = path // ': cannot read the file'
-      return
-    end if
+    call read_whole_file(path, content, status, message)
+    if (status /= NUCLEATE_OK) return
     call nucleate_call_json('Convert', '{"inputs":[{"file":{"name":"' // json_escape(path) // &
                             '","content":"' // base64(content) // &
                             '"}}],"format":"STRUCTURE_FORMAT_JSON"}', reply, status, message)
@@ -493,6 +479,35 @@ contains
       if (status /= NUCLEATE_OK) return
       counts(k) = size(number_values)
     end do
+  end subroutine
+
+  ! The whole file at `path` as one string (stream access: bytes as they are, newlines kept).
+  subroutine read_whole_file(path, content, status, message)
+    character(len=*), intent(in) :: path
+    character(len=:), allocatable, intent(out) :: content
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    integer :: unit, size_bytes, io
+    content = ''
+    open(newunit=unit, file=path, access='stream', form='unformatted', status='old', &
+         action='read', iostat=io)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = path // ': cannot open the file'
+      return
+    end if
+    inquire(unit=unit, size=size_bytes)
+    deallocate(content)
+    allocate(character(len=max(size_bytes, 0)) :: content)
+    if (size_bytes > 0) read(unit, iostat=io) content
+    close(unit)
+    if (io /= 0) then
+      status = NUCLEATE_ERROR_IO
+      message = path // ': cannot read the file'
+      return
+    end if
+    status = NUCLEATE_OK
+    message = ''
   end subroutine
 
   !> One structure written by the library as the text of a file in `format`: 'cif' (P1, every atom
@@ -771,26 +786,12 @@ contains
     character(len=:), allocatable, intent(out) :: message
     character(len=:), allocatable :: text, directory, reply
     real(c_double) :: value
-    integer :: unit, size_bytes, io, slash
+    integer :: slash
     steps_done = 0
     epochs_done = 0
     last_loss = 0
-    open(newunit=unit, file=config_path, access='stream', form='unformatted', status='old', &
-         action='read', iostat=io)
-    if (io /= 0) then
-      status = NUCLEATE_ERROR_IO
-      message = 'nucleate: cannot open ' // config_path
-      return
-    end if
-    inquire(unit=unit, size=size_bytes)
-    allocate(character(len=max(size_bytes, 0)) :: text)
-    if (size_bytes > 0) read(unit, iostat=io) text
-    close(unit)
-    if (io /= 0) then
-      status = NUCLEATE_ERROR_IO
-      message = 'nucleate: cannot read ' // config_path
-      return
-    end if
+    call read_whole_file(config_path, text, status, message)
+    if (status /= NUCLEATE_OK) return
     slash = index(config_path, '/', back=.true.)
     directory = '.'
     if (slash > 0) directory = config_path(1:slash - 1)

@@ -161,13 +161,7 @@ expect $? "a missing model file: exit 1 naming it (exit $code): $(cat bad.err)"
 # interrupted once the log shows progress: exit 1, the message, and the table of what finished.
 "$cli" assess --model $model --config data/absorbing.yaml --candidates 20000 --threads 1 \
   --log cancel.log >cancel.out 2>cancel.err &
-pid=$!
-for _ in $(seq 1 600); do
-  grep -q '^progress' cancel.log 2>/dev/null && break
-  sleep 0.05
-done
-kill -INT "$pid"
-wait "$pid"
+interrupt_when_progressing $! cancel.log
 code=$?
 [[ $code -eq 1 ]] && grep -q 'assessment cancelled' cancel.err && grep -q '^metric' cancel.out
 expect $? "Ctrl-C: exit 1, a message and the table (exit $code): $(cat cancel.err)"

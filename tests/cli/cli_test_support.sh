@@ -49,3 +49,14 @@ json_array() { grep -o "\"$1\":\[[^]]*\]" | head -n 1 | sed 's/^[^[]*//'; }
 json_value() { grep -o "\"$1\":\"\\?[^,\"}]*" | head -n 1 | sed 's/^[^:]*:"\?//'; }
 # The number of lines of a file, 0 when it does not exist.
 lines() { if [[ -f $1 ]]; then wc -l <"$1"; else echo 0; fi; }
+# interrupt_when_progressing PID LOG: sends Ctrl-C (SIGINT) to a background run once its log
+# shows a progress line (or after 30 s), and returns the run's exit code.
+interrupt_when_progressing() {
+  local pid=$1 log=$2
+  for _ in $(seq 1 600); do
+    grep -q '^progress' "$log" 2>/dev/null && break
+    sleep 0.05
+  done
+  kill -INT "$pid"
+  wait "$pid"
+}

@@ -226,13 +226,7 @@ expect $? "two tasks are refused naming one (exit $code): $(cat bad.err)"
 # progress; the finished candidates are written and the exit code says it was cancelled.
 "$cli" sample --model $model --out cancelled --composition NaCl --count 20000 --threads 1 \
   --log cancel.log >/dev/null 2>cancel.err &
-pid=$!
-for _ in $(seq 1 600); do
-  grep -q '^progress' cancel.log 2>/dev/null && break
-  sleep 0.05
-done
-kill -INT "$pid"
-wait "$pid"
+interrupt_when_progressing $! cancel.log
 code=$?
 kept=$(sed -n 's/.*kept \([0-9]*\) of 20000.*/\1/p' cancel.err)
 [[ $code -eq 1 && -n $kept ]]
