@@ -32,6 +32,16 @@ nucleate_require(yaml-cpp_FOUND "yaml-cpp" libyaml-cpp-dev)
 find_path(RANDOM123_INCLUDE_DIR Random123/philox.h)
 nucleate_require(RANDOM123_INCLUDE_DIR "Random123 headers" librandom123-dev)
 
+if(NUCLEATE_BUILD_MPI)
+  find_package(MPI QUIET COMPONENTS CXX)
+  if(NOT MPI_CXX_FOUND)
+    message(FATAL_ERROR
+      "nucleate: MPI (C++) not found for nucleate-mpi. On Debian 12: apt-get install "
+      "libopenmpi-dev openmpi-bin (or run scripts/install-deps.sh), or configure with "
+      "-DNUCLEATE_BUILD_MPI=OFF to build without the MPI driver.")
+  endif()
+endif()
+
 if(NUCLEATE_BUILD_CLI)
   find_package(CLI11 QUIET CONFIG)
   if(NOT CLI11_FOUND)

@@ -30,6 +30,9 @@ endif()
 if(NUCLEATE_BUILD_CLI)
   install(TARGETS nucleate_cli RUNTIME DESTINATION "${CMAKE_INSTALL_BINDIR}")
 endif()
+if(NUCLEATE_BUILD_MPI)
+  install(TARGETS nucleate_mpi RUNTIME DESTINATION "${CMAKE_INSTALL_BINDIR}")
+endif()
 install(DIRECTORY "${PROJECT_SOURCE_DIR}/schemas/nucleate"
   DESTINATION "${CMAKE_INSTALL_DATADIR}/nucleate/schemas")
 

@@ -9,6 +9,8 @@ packages=(
   # libraries
   libeigen3-dev libsymspg-dev libyaml-cpp-dev libprotobuf-dev protobuf-compiler
   libcli11-dev librandom123-dev
+  # the MPI driver nucleate-mpi (the library itself never links MPI)
+  libopenmpi-dev openmpi-bin
   # tests
   libgtest-dev libbenchmark-dev
   # outside references used by the tests only (the product itself stays Python-free)

@@ -9,6 +9,7 @@
 #include "methods/check_method.h"
 #include "methods/convert_method.h"
 #include "methods/match_methods.h"
+#include "methods/merge_samples_method.h"
 #include "methods/model_methods.h"
 #include "methods/sample_method.h"
 #include "methods/schedule_methods.h"
@@ -77,6 +78,7 @@ const std::vector<MethodEntry>& Methods() {
       EvaluateMethod(),
       SampleMethod(),
       AssessMethod(),
+      MergeSamplesMethod(),
   };
   return kMethods;
 }

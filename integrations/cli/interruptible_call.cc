@@ -17,8 +17,11 @@ extern "C" void RequestStop(int) { g_stop = true; }
 }  // namespace
 
 std::string CallWithProgress(const std::string& method, const std::string& request_json,
-                             std::ostream* log, bool* cancelled) {
-  ProgressDisplay display(::isatty(STDERR_FILENO) == 1, log);
+                             std::ostream* log, bool* cancelled, bool quiet) {
+  const StderrProgress mode = quiet                            ? StderrProgress::kNone
+                              : ::isatty(STDERR_FILENO) == 1 ? StderrProgress::kBar
+                                                             : StderrProgress::kLines;
+  ProgressDisplay display(mode, log);
   CallObserver observer;
   observer.log = [&](int, const std::string& line) { display.Line(line); };
   observer.progress = [&](double fraction, const std::string&) {

@@ -10,8 +10,9 @@
 namespace nucleate::cli {
 
 // The reply JSON; *cancelled tells whether the call was cancelled. `log` may be null. Errors as
-// CallJsonObserved raises them, after the progress line is ended.
+// CallJsonObserved raises them, after the progress line is ended. `quiet`: nothing on stderr
+// (for MPI ranks whose rank 0 already shows the progress).
 std::string CallWithProgress(const std::string& method, const std::string& request_json,
-                             std::ostream* log, bool* cancelled);
+                             std::ostream* log, bool* cancelled, bool quiet = false);
 
 }  // namespace nucleate::cli

@@ -19,8 +19,8 @@ std::string Duration(double seconds) {
 
 }  // namespace
 
-ProgressDisplay::ProgressDisplay(bool terminal, std::ostream* log)
-    : terminal_(terminal), log_(log), start_(Clock::now()) {}
+ProgressDisplay::ProgressDisplay(StderrProgress stderr_mode, std::ostream* log)
+    : stderr_mode_(stderr_mode), log_(log), start_(Clock::now()) {}
 
 std::string ProgressDisplay::PlainLine(double fraction, double elapsed, double left) const {
   return "progress " + std::to_string(static_cast<int>(fraction * 100)) + "% elapsed " +
@@ -35,7 +35,7 @@ void ProgressDisplay::Update(double fraction) {
   // Redrawn when the percentage moves or every half second (the time left), not on every report:
   // a large request reports thousands of times.
   const int percent = static_cast<int>(fraction * 100);
-  if (terminal_ &&
+  if (stderr_mode_ == StderrProgress::kBar &&
       (percent != drawn_percent_ || now - drawn_at_ > std::chrono::milliseconds(500))) {
     drawn_percent_ = percent;
     drawn_at_ = now;
@@ -51,13 +51,13 @@ void ProgressDisplay::Update(double fraction) {
   last_line_written_ = last_line_written_ || fraction >= 1;
   next_line_ = fraction + 0.05;
   const std::string line = PlainLine(fraction, elapsed, left);
-  if (!terminal_) std::cerr << line << '\n';
+  if (stderr_mode_ == StderrProgress::kLines) std::cerr << line << '\n';
   if (log_ != nullptr) *log_ << line << std::endl;
 }
 
 void ProgressDisplay::Line(const std::string& line) {
   Finish();
-  std::cerr << line << '\n';
+  if (stderr_mode_ != StderrProgress::kNone) std::cerr << line << '\n';
   if (log_ != nullptr) *log_ << line << std::endl;
 }
 

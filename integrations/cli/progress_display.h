@@ -1,6 +1,7 @@
 // Progress of a long call: a bar with the time left, redrawn in place when stderr is a terminal;
-// otherwise a plain line per 5 % on stderr, so a batch job's output stays readable. With a log
-// file, the plain lines (and every log line) also go there, whatever stderr is.
+// otherwise a plain line per 5 % on stderr, so a batch job's output stays readable; or nothing on
+// stderr (MPI ranks other than 0). With a log file, the plain lines (and every log line) also go
+// there, whatever stderr gets.
 #pragma once
 
 #include <chrono>
@@ -9,10 +10,12 @@
 
 namespace nucleate::cli {
 
+enum class StderrProgress { kBar, kLines, kNone };
+
 class ProgressDisplay {
  public:
   // `log` may be null.
-  ProgressDisplay(bool terminal, std::ostream* log);
+  ProgressDisplay(StderrProgress stderr_mode, std::ostream* log);
 
   void Update(double fraction);
 
@@ -26,7 +29,7 @@ class ProgressDisplay {
   using Clock = std::chrono::steady_clock;
   std::string PlainLine(double fraction, double elapsed, double left) const;
 
-  bool terminal_;
+  StderrProgress stderr_mode_;
   std::ostream* log_;
   Clock::time_point start_;
   bool drawn_ = false;

@@ -59,11 +59,16 @@ SampleSettings CommandLineSettings(const SampleFlags& flags) {
   throw CallFailed(failure.status(), std::string(failure.what()) + " (set by " + origin + ")");
 }
 
-int RunSample(const SampleFlags& flags) {
+int RunSample(const SampleFlags& flags, const SampleCaller& caller) {
   const SampleSettings command_line = CommandLineSettings(flags);
   const SampleSettings settings =
       flags.job.empty() ? command_line : MergeSettings(ReadSampleJobFile(flags.job), command_line);
   const SamplePlan plan = PlanSample(settings);
+  if (!caller.writes_outputs) {
+    bool cancelled = false;
+    caller.call(settings, plan, nullptr, &cancelled);
+    return 0;
+  }
   const bool created_out_dir = PrepareOutputFolder(plan);
 
   std::unique_ptr<std::ofstream> log_file;
@@ -76,7 +81,7 @@ int RunSample(const SampleFlags& flags) {
   bool cancelled = false;
   std::string reply_json;
   try {
-    reply_json = CallWithProgress("Sample", plan.request_json, log_file.get(), &cancelled);
+    reply_json = caller.call(settings, plan, log_file.get(), &cancelled);
   } catch (const CallFailed& failure) {
     if (log_file) *log_file << "failed: " << failure.what() << std::endl;
     std::error_code ignored;  // a refused request leaves no empty folder behind
@@ -119,7 +124,12 @@ int RunSample(const SampleFlags& flags) {
 
 }  // namespace
 
-void AddSampleCommand(CLI::App& app, std::function<int()>* run) {
+std::string CallSampleHere(const SampleSettings&, const SamplePlan& plan, std::ostream* log,
+                           bool* cancelled) {
+  return CallWithProgress("Sample", plan.request_json, log, cancelled);
+}
+
+void AddSampleCommand(CLI::App& app, std::function<int()>* run, SampleCaller caller) {
   auto flags = std::make_shared<SampleFlags>();
   CLI::App* command = app.add_subcommand(
       "sample",
@@ -155,7 +165,8 @@ void AddSampleCommand(CLI::App& app, std::function<int()>* run) {
     }
     flags->options[key] = option;
   }
-  command->callback([flags, run] { *run = [flags] { return RunSample(*flags); }; });
+  command->callback(
+      [flags, run, caller] { *run = [flags, caller] { return RunSample(*flags, caller); }; });
 }
 
 }  // namespace nucleate::cli

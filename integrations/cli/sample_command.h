@@ -6,9 +6,31 @@
 
 #include <CLI/CLI.hpp>
 #include <functional>
+#include <ostream>
+#include <string>
+
+#include "sample_request.h"
+#include "sample_settings.h"
 
 namespace nucleate::cli {
 
-void AddSampleCommand(CLI::App& app, std::function<int()>* run);
+// How a run's Sample call is made: by default once, in this process (CallSampleHere);
+// integrations/mpi spreads the request over MPI ranks and merges their parts.
+struct SampleCaller {
+  // The reply JSON of the whole request `plan` (planned from `settings`); *cancelled as
+  // CallWithProgress sets it. Raises CallFailed as the library refuses.
+  std::function<std::string(const SampleSettings& settings, const SamplePlan& plan,
+                            std::ostream* log, bool* cancelled)>
+      call;
+  // False on processes that only contribute a part (MPI ranks other than 0): they write no
+  // files, no log and no table.
+  bool writes_outputs = true;
+};
+
+std::string CallSampleHere(const SampleSettings& settings, const SamplePlan& plan,
+                           std::ostream* log, bool* cancelled);
+
+void AddSampleCommand(CLI::App& app, std::function<int()>* run,
+                      SampleCaller caller = {CallSampleHere, true});
 
 }  // namespace nucleate::cli

@@ -5,12 +5,12 @@
 #include <vector>
 
 #include "core/common/require.h"
-#include "core/match/dedup.h"
 #include "core/model/bundle/bundle_file.h"
 #include "core/sample/sampler.h"
 #include "core/structure/composition.h"
 #include "core/symmetry/symmetry.h"
 #include "error_detail.h"
+#include "methods/candidate_groups.h"
 #include "methods/match_methods.h"
 #include "methods/structure_inputs.h"
 #include "methods/structure_report.h"
@@ -190,21 +190,7 @@ void HandleSample(const v1::SampleRequest& request, v1::SampleReply* reply,
     candidate_of.push_back(reply->candidates_size() - 1);
   }
 
-  // Duplicates within the request, grouped by the matcher (representatives in index order).
-  const match::DedupResult groups = match::Deduplicate(finished, tolerances, job.threads);
-  for (const std::vector<int>& members : groups.groups) {
-    v1::CandidateGroup* group = reply->add_groups();
-    for (int k : members) {
-      v1::Candidate* candidate = reply->mutable_candidates(candidate_of[k]);
-      candidate->set_group(reply->groups_size() - 1);
-      candidate->set_representative(k == members.front());
-      group->add_indices(candidate->index());
-    }
-    if (reply->candidates(candidate_of[members.front()]).report().valid()) {
-      summary->set_valid_unique(summary->valid_unique() + 1);
-    }
-  }
-  summary->set_unique(reply->groups_size());
+  GroupCandidates(finished, candidate_of, tolerances, job.threads, reply);
 }
 
 }  // namespace
