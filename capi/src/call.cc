@@ -15,14 +15,15 @@ int32_t nucleate_abi_version(void) { return NUCLEATE_ABI_VERSION; }
 
 void nucleate_free(void* pointer) { std::free(pointer); }
 
-nucleate_status nucleate_call_observed(const char* method, const void* request,
-                                       size_t request_size, int32_t encoding,
-                                       nucleate_log_fn log, nucleate_progress_fn progress,
-                                       void* user_data, void** reply, size_t* reply_size,
-                                       char** message) {
+nucleate_status nucleate_call_collective(const char* method, const void* request,
+                                         size_t request_size, int32_t encoding,
+                                         const nucleate_collective_v1* collective,
+                                         nucleate_log_fn log, nucleate_progress_fn progress,
+                                         void* user_data, void** reply, size_t* reply_size,
+                                         char** message) {
   if (reply == nullptr || reply_size == nullptr) return NUCLEATE_ERROR_NULL_ARGUMENT;
   try {
-    const nucleate::capi::CallContext context(log, progress, user_data);
+    const nucleate::capi::CallContext context(log, progress, user_data, collective);
     nucleate::capi::DispatchOutcome outcome =
         nucleate::capi::Dispatch(method, request, request_size, encoding, context);
     char* reply_copy = CopyOut(outcome.reply);
@@ -43,6 +44,15 @@ nucleate_status nucleate_call_observed(const char* method, const void* request,
   } catch (...) {
     return NUCLEATE_ERROR_OUT_OF_MEMORY;  // only allocation can throw past Dispatch
   }
+}
+
+nucleate_status nucleate_call_observed(const char* method, const void* request,
+                                       size_t request_size, int32_t encoding,
+                                       nucleate_log_fn log, nucleate_progress_fn progress,
+                                       void* user_data, void** reply, size_t* reply_size,
+                                       char** message) {
+  return nucleate_call_collective(method, request, request_size, encoding, nullptr, log, progress,
+                                  user_data, reply, reply_size, message);
 }
 
 nucleate_status nucleate_call(const char* method, const void* request, size_t request_size,

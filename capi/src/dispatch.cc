@@ -54,6 +54,33 @@ DispatchOutcome Fail(const char* method, int32_t encoding, const CallFailure& fa
   return outcome;
 }
 
+// A collective must describe this process sensibly, and only a method that shares its work may
+// run with more than one process.
+void CheckCollective(const char* method, const MethodEntry& entry,
+                     const nucleate_collective_v1* c) {
+  if (c == nullptr) return;
+  const auto refuse = [&](const std::string& field, const std::string& detail) {
+    throw CallFailure{NUCLEATE_ERROR_INVALID_ARGUMENT, field,
+                      std::string(method) + ": " + field + ": " + detail};
+  };
+  if (c->struct_size < sizeof(nucleate_collective_v1)) {
+    refuse("collective.struct_size", "is " + std::to_string(c->struct_size) + "; expected " +
+                                         std::to_string(sizeof(nucleate_collective_v1)));
+  }
+  if (c->size < 1) refuse("collective.size", "must be >= 1, got " + std::to_string(c->size));
+  if (c->rank < 0 || c->rank >= c->size) {
+    refuse("collective.rank", std::to_string(c->rank) + " is outside 0.." +
+                                  std::to_string(c->size - 1));
+  }
+  if (c->size > 1 && c->sum_doubles == nullptr) {
+    refuse("collective.sum_doubles", "required when size > 1");
+  }
+  if (c->size > 1 && !entry.spans_processes) {
+    refuse("collective", "this method runs within one process; of the methods only Train "
+                         "spreads over processes (call it once, or split Sample by first_index)");
+  }
+}
+
 }  // namespace
 
 const MethodEntry* FindMethod(const char* method) {
@@ -100,6 +127,7 @@ DispatchOutcome Dispatch(const char* method, const void* request, size_t request
                     "unknown method '" + std::string(method) +
                         "'; the Version method lists the methods this library knows"};
     }
+    CheckCollective(method, *entry, context.collective());
     if (request == nullptr && request_size != 0) {
       throw CallFailure{NUCLEATE_ERROR_NULL_ARGUMENT, "",
                     std::string(method) + ": request is NULL but request_size is " +

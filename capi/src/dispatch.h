@@ -20,6 +20,9 @@ struct MethodEntry {
   const google::protobuf::Message& (*request_prototype)();
   const google::protobuf::Message& (*reply_prototype)();
   Handler handler;
+  // Whether the method shares its work among the processes of nucleate_call_collective; any
+  // other method refuses a collective of more than one process.
+  bool spans_processes = false;
 };
 
 // Turns a typed handler into a table entry; the dispatcher builds the request from the same

@@ -13,6 +13,7 @@ extern "C" const nucleate_plugin_v1* nucleate_plugin_entry(uint32_t requested_ab
       &nucleate_free,
       &nucleate_status_name,
       &nucleate_reply_doubles,
+      &nucleate_call_collective,
   };
   // Fields are only appended and meanings never change, so one table serves every host built
   // against this ABI major; a host from a different major gets NULL rather than a wrong table.
@@ -29,3 +30,4 @@ static_assert(offsetof(nucleate_plugin_v1, call_observed) == 24, "plugin table l
 static_assert(offsetof(nucleate_plugin_v1, free) == 32, "plugin table layout");
 static_assert(offsetof(nucleate_plugin_v1, status_name) == 40, "plugin table layout");
 static_assert(offsetof(nucleate_plugin_v1, reply_doubles) == 48, "plugin table layout");
+static_assert(offsetof(nucleate_plugin_v1, call_collective) == 56, "plugin table layout");

@@ -16,6 +16,7 @@ extern "C" const char* nucleate_status_name(nucleate_status status) {
       "NUCLEATE_ERROR_CANCELLED",
       "NUCLEATE_ERROR_NUMERICAL",
       "NUCLEATE_ERROR_UNSUPPORTED",
+      "NUCLEATE_ERROR_COLLECTIVE",
   };
   constexpr int kCount = sizeof(kNames) / sizeof(kNames[0]);
   if (status < 0 || status >= kCount) return "NUCLEATE_STATUS_UNKNOWN";
@@ -33,6 +34,7 @@ nucleate_status StatusForErrorKind(ErrorKind kind) {
     case ErrorKind::kIo: return NUCLEATE_ERROR_IO;
     case ErrorKind::kCancelled: return NUCLEATE_ERROR_CANCELLED;
     case ErrorKind::kInternal: return NUCLEATE_ERROR_INTERNAL;
+    case ErrorKind::kCollective: return NUCLEATE_ERROR_COLLECTIVE;
   }
   return NUCLEATE_ERROR_INTERNAL;
 }

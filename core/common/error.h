@@ -15,6 +15,7 @@ enum class ErrorKind {
   kIo,               // a file could not be read or written
   kCancelled,        // the caller's progress callback asked to stop
   kInternal,         // a broken invariant inside nucleate: a bug
+  kCollective,       // the caller's sum over processes failed (data-parallel training)
 };
 
 // Every error carries the request field (or file and line) it is about, so the message a

@@ -46,7 +46,36 @@ struct Run {
   const model::DiffusionProcess& process;
   int threads;
   Workspace* workspace;
+  const ProcessGroup& group;
 };
+
+// This process's micro-batches [first, last) of `count`: a contiguous block, so each process
+// sums its own in order and the group adds the blocks' sums.
+struct Share {
+  std::size_t first, last;
+};
+Share ShareOf(const ProcessGroup& group, std::size_t count) {
+  const auto at = [&](int r) {
+    return static_cast<std::size_t>(count * static_cast<std::uint64_t>(r) / group.size);
+  };
+  return {at(group.rank), at(group.rank + 1)};
+}
+
+// Adds `values` (and `extra` behind them) over the group, in double precision, and writes the
+// sums back; a one-process group changes nothing, so its results stay bitwise those of Train
+// without a group.
+void SumOverGroup(const ProcessGroup& group, std::vector<float>* values, double* extra) {
+  if (group.size <= 1) return;
+  std::vector<double> buffer;
+  buffer.reserve((values ? values->size() : 0) + 1);
+  if (values) buffer.assign(values->begin(), values->end());
+  buffer.push_back(*extra);
+  group.sum(&buffer);
+  if (values) {
+    for (std::size_t i = 0; i < values->size(); ++i) (*values)[i] = static_cast<float>(buffer[i]);
+  }
+  *extra = buffer.back();
+}
 
 // Noised cells -> batch and targets, for cells[begin, end) of `pool`.
 struct MicroBatch {
@@ -102,7 +131,9 @@ double BatchGradient(const Run& run, const std::vector<float>& params,
   std::vector<std::vector<float>>& grads = ws.micro_gradients;
   if (grads.size() < count) grads.resize(count);
   std::vector<double> losses(count, 0.0);
-  ParallelFor(count, run.threads, [&](std::size_t m, int worker) {
+  const Share share_of = ShareOf(run.group, count);
+  ParallelFor(share_of.last - share_of.first, run.threads, [&](std::size_t k, int worker) {
+    const std::size_t m = share_of.first + k;
     const std::size_t begin = m * o.micro_batch;
     const std::size_t end = std::min(cells.size(), begin + o.micro_batch);
     MicroBatch mb = Prepare(run, run.set.train, cells, begin, end, o.dropout, step);
@@ -119,10 +150,11 @@ double BatchGradient(const Run& run, const std::vector<float>& params,
   });
   grad->assign(params.size(), 0.0f);
   double loss = 0;
-  for (std::size_t m = 0; m < count; ++m) {
+  for (std::size_t m = share_of.first; m < share_of.last; ++m) {
     for (std::size_t i = 0; i < params.size(); ++i) (*grad)[i] += grads[m][i];
     loss += losses[m];
   }
+  SumOverGroup(run.group, grad, &loss);
   return loss;
 }
 
@@ -137,7 +169,9 @@ double ValidationLoss(const Run& run, const std::vector<float>& params) {
   std::vector<double> losses(count, 0.0);
   const ConditionDropout none{0.0, 0.0};
   Workspace& ws = *run.workspace;
-  ParallelFor(count, run.threads, [&](std::size_t m, int worker) {
+  const Share share_of = ShareOf(run.group, count);
+  ParallelFor(share_of.last - share_of.first, run.threads, [&](std::size_t k, int worker) {
+    const std::size_t m = share_of.first + k;
     const std::size_t begin = m * micro, end = std::min(cells.size(), begin + micro);
     MicroBatch mb = Prepare(run, pool, cells, begin, end, none, kValidationStep);
     model::DenoiserOutput<float>& out = ws.outputs[worker];
@@ -149,6 +183,7 @@ double ValidationLoss(const Run& run, const std::vector<float>& params) {
   });
   double loss = 0;
   for (double l : losses) loss += l;
+  SumOverGroup(run.group, nullptr, &loss);
   return loss;
 }
 
@@ -216,7 +251,16 @@ std::string Fixed(double x, int digits) {
 
 }  // namespace
 
-TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const TrainLog& log) {
+TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const TrainLog& log,
+                  const ProcessGroup& group) {
+  if (group.size < 1 || group.rank < 0 || group.rank >= group.size) {
+    throw InvalidArgument("collective", "process " + std::to_string(group.rank) + " of " +
+                                            std::to_string(group.size) + " does not exist");
+  }
+  if (group.size > 1 && !group.sum) {
+    throw InvalidArgument("collective", "a sum over the processes is required");
+  }
+  const bool writes_files = group.rank == 0;
   const auto say = [&](const std::string& line) {
     if (log) log(line);
   };
@@ -252,7 +296,7 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   workspace.caches.resize(threads);
   workspace.outputs.resize(threads);
   workspace.gradients.resize(threads);
-  const Run run{s, set, net, process, threads, &workspace};
+  const Run run{s, set, net, process, threads, &workspace, group};
   result.parameters = static_cast<std::int64_t>(net.layout().size());
 
   std::vector<float> params = model::nn::Initialise<float>(net.layout(), o.seed);
@@ -290,10 +334,11 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   }
   say("model: " + std::to_string(result.parameters) + " parameters; " +
       std::to_string(steps_per_epoch) + " steps per epoch, " + std::to_string(total_steps) +
-      " in all; " + std::to_string(threads) + " threads");
+      " in all; " + std::to_string(threads) + " threads" +
+      (group.size > 1 ? " on each of " + std::to_string(group.size) + " processes" : ""));
 
   const auto save_checkpoint = [&](std::int64_t epochs) {
-    if (s.output.checkpoint.empty()) return;
+    if (s.output.checkpoint.empty() || !writes_files) return;
     Checkpoint c;
     c.model = MakeBundle(s, set, net, params, adam.step);
     c.moving_average = average;
@@ -339,11 +384,14 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
         p.elapsed_seconds = std::chrono::duration<double>(Clock::now() - start).count();
         const double done = static_cast<double>(adam.step - first_step);
         p.remaining_seconds = done > 0 ? p.elapsed_seconds / done * double(total_steps - adam.step) : 0;
-        if (!observer(p)) {
-          result.cancelled = true;
-          break;
-        }
+        if (!observer(p)) result.cancelled = true;
       }
+      // Any process may be told to stop (a signal reaches them all, or only one): all stop
+      // after the same step.
+      double stop = result.cancelled ? 1.0 : 0.0;
+      SumOverGroup(group, nullptr, &stop);
+      result.cancelled = stop > 0;
+      if (result.cancelled) break;
     }
     if (result.cancelled) {
       say("cancelled at step " + std::to_string(adam.step) + " in epoch " + std::to_string(epoch + 1));
@@ -363,8 +411,10 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   // writes the model it has so far.
   result.epochs_done = epochs_done;
   result.steps_done = adam.step;
-  model::SaveModelBundle(s.output.model, MakeBundle(s, set, net, average, adam.step));
-  say("model written to " + s.output.model);
+  if (writes_files) {
+    model::SaveModelBundle(s.output.model, MakeBundle(s, set, net, average, adam.step));
+    say("model written to " + s.output.model);
+  }
   return result;
 }
 

@@ -41,7 +41,20 @@ struct TrainResult {
   std::string dataset_hash;
 };
 
+// The processes of a data-parallel run (nucleate_call_collective; the MPI driver). Every process
+// runs Train with the same settings and data. Process r computes micro-batches
+// [count * r / size, count * (r + 1) / size) of every batch and of the validation set, and `sum`
+// adds a vector over all processes in place, the same bits on each, so every process takes the
+// same optimiser step. Only process 0 writes the checkpoint and the model. Results equal the
+// one-process run up to the rounding of the changed summation order (core/model/DESIGN.md,
+// "Across processes").
+struct ProcessGroup {
+  int rank = 0;
+  int size = 1;
+  std::function<void(std::vector<double>* values)> sum;  // required when size > 1; throws on failure
+};
+
 TrainResult Train(const TrainSettings& settings, const TrainObserver& observer = nullptr,
-                  const TrainLog& log = nullptr);
+                  const TrainLog& log = nullptr, const ProcessGroup& group = {});
 
 }  // namespace nucleate::train

@@ -37,14 +37,15 @@ int32_t ForwardProgress(double fraction, const char* stage, void* user_data) {
 }  // namespace
 
 std::string CallJsonObserved(const std::string& method, const std::string& request_json,
-                             const CallObserver& observer, bool* cancelled) {
+                             const CallObserver& observer, bool* cancelled,
+                             const nucleate_collective_v1* collective) {
   void* reply = nullptr;
   size_t reply_size = 0;
   char* message = nullptr;
-  const nucleate_status status = nucleate_call_observed(
+  const nucleate_status status = nucleate_call_collective(
       method.c_str(), request_json.data(), request_json.size(), NUCLEATE_ENCODING_JSON,
-      &ForwardLog, &ForwardProgress, const_cast<CallObserver*>(&observer), &reply, &reply_size,
-      &message);
+      collective, &ForwardLog, &ForwardProgress, const_cast<CallObserver*>(&observer), &reply,
+      &reply_size, &message);
   std::unique_ptr<void, void (*)(void*)> reply_owner(reply, nucleate_free);
   std::unique_ptr<char, void (*)(void*)> message_owner(message, nucleate_free);
   *cancelled = status == NUCLEATE_ERROR_CANCELLED;

@@ -2,9 +2,10 @@
 #pragma once
 
 #include <functional>
-
 #include <stdexcept>
 #include <string>
+
+#include "nucleate/nucleate.h"
 
 namespace nucleate::cli {
 
@@ -29,8 +30,10 @@ struct CallObserver {
 };
 
 // As CallJson, with log and progress. A call cancelled through `progress` returns the reply of
-// what was finished and sets *cancelled; other failures throw CallFailed.
+// what was finished and sets *cancelled; other failures throw CallFailed. With `collective`, the
+// call is shared by the processes it describes (nucleate_call_collective).
 std::string CallJsonObserved(const std::string& method, const std::string& request_json,
-                             const CallObserver& observer, bool* cancelled);
+                             const CallObserver& observer, bool* cancelled,
+                             const nucleate_collective_v1* collective = nullptr);
 
 }  // namespace nucleate::cli

@@ -17,7 +17,8 @@ extern "C" void RequestStop(int) { g_stop = true; }
 }  // namespace
 
 std::string CallWithProgress(const std::string& method, const std::string& request_json,
-                             std::ostream* log, bool* cancelled, bool quiet) {
+                             std::ostream* log, bool* cancelled, bool quiet,
+                             const nucleate_collective_v1* collective) {
   const StderrProgress mode = quiet                            ? StderrProgress::kNone
                               : ::isatty(STDERR_FILENO) == 1 ? StderrProgress::kBar
                                                              : StderrProgress::kLines;
@@ -32,7 +33,7 @@ std::string CallWithProgress(const std::string& method, const std::string& reque
   std::signal(SIGINT, RequestStop);
   std::signal(SIGTERM, RequestStop);
   try {
-    std::string reply = CallJsonObserved(method, request_json, observer, cancelled);
+    std::string reply = CallJsonObserved(method, request_json, observer, cancelled, collective);
     display.Finish();
     return reply;
   } catch (...) {

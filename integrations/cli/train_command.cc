@@ -22,7 +22,8 @@ std::string ReadFile(const std::string& path) {
   return text.str();
 }
 
-int RunTrain(const std::string& config, const std::string& log_path) {
+int RunTrain(const std::string& config, const std::string& log_path,
+             const TrainProcesses& processes) {
   const std::string yaml = ReadFile(config);
   const std::filesystem::path path(config);
   const std::string directory = path.has_parent_path() ? path.parent_path().string() : ".";
@@ -30,12 +31,15 @@ int RunTrain(const std::string& config, const std::string& log_path) {
                               ",\"config_directory\":" + JsonQuote(directory) +
                               ",\"config_name\":" + JsonQuote(config) + "}";
   std::unique_ptr<std::ofstream> log_file;
-  if (!log_path.empty()) {
+  if (!log_path.empty() && processes.writes_outputs) {
     log_file = std::make_unique<std::ofstream>(log_path, std::ios::app);
     if (!*log_file) throw std::runtime_error("cannot write '" + log_path + "'");
   }
   bool cancelled = false;
-  const std::string reply_json = CallWithProgress("Train", request, log_file.get(), &cancelled);
+  const std::string reply_json =
+      CallWithProgress("Train", request, log_file.get(), &cancelled,
+                       /*quiet=*/!processes.writes_outputs, processes.collective);
+  if (!processes.writes_outputs) return cancelled ? 1 : 0;
   const YAML::Node reply = ParseJson(reply_json);
   const auto count = [&](const char* key) {
     return reply[key] ? static_cast<long long>(AsDouble(reply[key])) : 0LL;
@@ -92,14 +96,14 @@ int RunModelInfo(const std::string& file, bool json) {
 
 }  // namespace
 
-void AddTrainCommand(CLI::App& app, std::function<int()>* run) {
+void AddTrainCommand(CLI::App& app, std::function<int()>* run, TrainProcesses processes) {
   auto config = std::make_shared<std::string>();
   auto log = std::make_shared<std::string>();
   CLI::App* command = app.add_subcommand(
       "train", "Train a denoiser from a YAML configuration (keys: core/train/CONFIG.md)");
   command->add_option("--config", *config, "The training configuration (YAML)")->required();
   command->add_option("--log", *log, "Also append the log lines to this file");
-  command->callback([=] { *run = [=] { return RunTrain(*config, *log); }; });
+  command->callback([=] { *run = [=] { return RunTrain(*config, *log, processes); }; });
 }
 
 void AddModelCommand(CLI::App& app, std::function<int()>* run) {

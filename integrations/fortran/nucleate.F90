@@ -30,6 +30,7 @@ module nucleate
   integer, parameter, public :: NUCLEATE_ERROR_CANCELLED = 10
   integer, parameter, public :: NUCLEATE_ERROR_NUMERICAL = 11
   integer, parameter, public :: NUCLEATE_ERROR_UNSUPPORTED = 12
+  integer, parameter, public :: NUCLEATE_ERROR_COLLECTIVE = 13
 
   integer(c_int32_t), parameter :: ENCODING_JSON = 1
 

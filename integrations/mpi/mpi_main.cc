@@ -2,6 +2,9 @@
 //   mpirun -n P nucleate-mpi sample ...   the flags and job files of `nucleate sample`; each rank
 //                                         samples its slice of the indices, rank 0 writes what a
 //                                         serial run writes, byte for byte (mpi_sample.h).
+//   mpirun -n P nucleate-mpi train ...    `nucleate train`, data-parallel: each rank computes its
+//                                         share of every batch's gradient (mpi_collective.h);
+//                                         rank 0 writes the checkpoint and the model.
 // Every rank must get the same command line. Exit codes as `nucleate`; messages from rank 0 only.
 #include <iostream>
 #include <ostream>
@@ -12,9 +15,11 @@
 
 #include <CLI/CLI.hpp>
 
+#include "mpi_collective.h"
 #include "mpi_sample.h"
 #include "nucleate/nucleate.h"
 #include "sample_command.h"
+#include "train_command.h"
 
 namespace {
 
@@ -33,7 +38,7 @@ int Run(int argc, char** argv, int rank) {
   std::ostream& out = rank == 0 ? std::cout : null_stream;
   std::ostream& err = rank == 0 ? std::cerr : null_stream;
 
-  CLI::App app{"nucleate-mpi: nucleate's sampling spread over MPI ranks (run with mpirun)"};
+  CLI::App app{"nucleate-mpi: nucleate's sampling and training spread over MPI ranks (run with mpirun)"};
   app.require_subcommand(1);
   std::function<int()> run;
   CLI::App* version = app.add_subcommand("version", "Print the library version");
@@ -47,6 +52,8 @@ int Run(int argc, char** argv, int rank) {
     };
   });
   nucleate::cli::AddSampleCommand(app, &run, nucleate::mpi::DistributedSampleCaller(MPI_COMM_WORLD));
+  const nucleate::mpi::MpiCollective collective(MPI_COMM_WORLD);
+  nucleate::cli::AddTrainCommand(app, &run, {collective.get(), rank == 0});
   try {
     app.parse(argc, argv);
   } catch (const CLI::CallForHelp& help) {

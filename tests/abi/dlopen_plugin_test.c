@@ -51,6 +51,9 @@ int main(int argc, char** argv) {
   CHECK(table->version != NULL && strcmp(table->version(), NUCLEATE_VERSION_STRING) == 0);
   CHECK(table->call != NULL && table->free != NULL && table->status_name != NULL &&
         table->reply_doubles != NULL && table->call_observed != NULL);
+  /* Appended after reply_doubles: a host checks struct_size before using it. */
+  CHECK(table->struct_size >= offsetof(nucleate_plugin_v1, call_collective) + sizeof(void*));
+  CHECK(table->call_collective != NULL);
 
   CHECK(table->call("Schedule", request, strlen(request), NUCLEATE_ENCODING_JSON, &reply,
                     &reply_size, &message) == NUCLEATE_OK);

@@ -64,6 +64,43 @@ expect $? "variation: one duplicate group across both ranks: $(tail -n 2 mpi-var
 same_as_serial offset 2 --composition MgO --count 5 --first-index 11 --seed 4 --json
 same_as_serial idle-rank 3 --composition NaCl --count 2 --seed 3
 
+# --- Data-parallel training ----------------------------------------------------------------
+# The same run on one process and on 2 ranks (each half of every batch): the same steps, and
+# predictions of the two models within 1e-4 of each other (relative to the largest; the sums run
+# in another order, so bits may differ; core/train/trainer.h).
+for name in serial parallel; do
+  cat >"data/$name.yaml" <<EOF2
+data: {directory: structures}
+split: {validation_fraction: 0.2, test_fraction: 0.0}
+model: {hidden: 16, layers: 1, time_embedding: 8, species: absorbing}
+diffusion: {steps: 20}
+training: {epochs: 6, batch_size: 4, micro_batch: 1, warmup_steps: 1, threads: 1}
+output: {model: $name.nucleate}
+EOF2
+done
+"$cli" train --config data/serial.yaml >train-serial.out 2>train-serial.err
+expect $? "serial training: $(tail -n 1 train-serial.err)"
+ranks 2 train --config data/parallel.yaml >train-parallel.out 2>train-parallel.err
+expect $? "2-rank training: $(tail -n 1 train-parallel.err)"
+[[ $(grep -c '^model written' train-parallel.err) -eq 1 ]] && grep -q 'on each of 2 processes' train-parallel.err
+expect $? "2-rank training: one log, naming the 2 processes: $(head -n 4 train-parallel.err)"
+grep -q '^parameters .* steps 6$' train-parallel.out && \
+  [[ $(grep steps train-serial.out) == "$(grep steps train-parallel.out)" ]]
+expect $? "2-rank training: the serial run's epochs and steps: $(grep steps train-parallel.out)"
+# Rock salt, primitive cell, half-way through the 20 steps.
+cell='{"structure":{"lattice":[0,2.82,2.82,2.82,0,2.82,2.82,2.82,0],"atomic_numbers":[11,17],"frac_coords":[0.01,0.02,0.03,0.5,0.48,0.52]},"step":10}'
+for name in serial parallel; do
+  echo "{\"model_path\":\"data/$name.nucleate\",\"cells\":[$cell]}" | "$cli" call Evaluate \
+    | grep -o -- '-\?[0-9][0-9.e+-]*' >"evaluate-$name.txt"
+done
+difference=$(paste evaluate-serial.txt evaluate-parallel.txt | awk '
+  { d = $1 - $2; if (d < 0) d = -d; if (d > diff) diff = d
+    a = $1 < 0 ? -$1 : $1; if (a > scale) scale = a; n++ }
+  END { if (n < 10 || scale == 0) print "none"; else printf "%.3g\n", diff / scale }')
+[[ $difference != none ]] && awk -v d="$difference" 'BEGIN { exit !(d < 1e-4) }'
+expect $? "2-rank training: predictions within 1e-4 of the serial model's (measured $difference)"
+echo "data-parallel training: predictions differ by $difference of the largest"
+
 # --- Refusals: once, from rank 0 ------------------------------------------------------------
 ranks 2 sample --model missing.nucleate --composition NaCl --count 4 --out refused \
   >/dev/null 2>refused.err

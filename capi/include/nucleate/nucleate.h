@@ -70,6 +70,8 @@ typedef int32_t nucleate_status;
 #define NUCLEATE_ERROR_NUMERICAL 11
 /* A valid request that this version does not handle. */
 #define NUCLEATE_ERROR_UNSUPPORTED 12
+/* The caller's sum_doubles of a nucleate_call_collective reported a failure (since 0.1.0). */
+#define NUCLEATE_ERROR_COLLECTIVE 13
 
 /* Symbolic name of a status code ("NUCLEATE_ERROR_INVALID_ARGUMENT"), or "NUCLEATE_STATUS_UNKNOWN".
    The string is static; do not free it. Since 0.1.0. */
@@ -132,6 +134,34 @@ NUCLEATE_API nucleate_status nucleate_call_observed(const char* method, const vo
                                                     void* user_data, void** reply,
                                                     size_t* reply_size, char** message);
 
+/* ---- Calls that span processes (since 0.1.0) ------------------------------------------------- */
+
+/* The processes of one data-parallel call, described by the caller (an MPI program, typically),
+   so that the library itself never links a communication library. */
+typedef struct nucleate_collective_v1 {
+  uint32_t struct_size; /* sizeof(nucleate_collective_v1) as the caller compiled it */
+  int32_t rank;         /* this process, 0 .. size - 1; process 0 alone writes files */
+  int32_t size;         /* processes taking part, >= 1 */
+  /* Replaces values[0 .. count) by their element-wise sum over all processes, in place. Every
+     process calls it with the same count, in the same order; every process must get the same
+     bits back (MPI_Reduce to one rank then MPI_Bcast does; MPI_Allreduce may round differently
+     on different ranks). Return 0 on success; anything else fails the call on this process
+     (the others then fail in their next sum, so the caller should abort the job). */
+  int32_t (*sum_doubles)(double* values, int64_t count, void* context);
+  void* context; /* passed to sum_doubles unchanged */
+} nucleate_collective_v1;
+
+/* As nucleate_call_observed, run by every process of `collective` with the same request: the
+   processes share the work and return the same reply. Only Train spreads over processes (each
+   process computes its share of every batch's gradient; results equal the single-process run
+   within rounding: core/model/DESIGN.md, "Across processes"). Any other method with size > 1
+   fails with NUCLEATE_ERROR_INVALID_ARGUMENT naming "collective". collective may be NULL (one
+   process). Log and progress callbacks are the caller's to silence on all but one process. */
+NUCLEATE_API nucleate_status nucleate_call_collective(
+    const char* method, const void* request, size_t request_size, int32_t encoding,
+    const nucleate_collective_v1* collective, nucleate_log_fn log, nucleate_progress_fn progress,
+    void* user_data, void** reply, size_t* reply_size, char** message);
+
 /* Releases anything the library returned. NULL is allowed and does nothing. */
 NUCLEATE_API void nucleate_free(void* pointer);
 
@@ -173,6 +203,13 @@ typedef struct nucleate_plugin_v1 {
   nucleate_status (*reply_doubles)(const char* method, const void* reply, size_t reply_size,
                                    int32_t encoding, const char* path, double** values,
                                    size_t* count, char** message);
+  /* Appended: present when struct_size > offsetof(nucleate_plugin_v1, call_collective). */
+  nucleate_status (*call_collective)(const char* method, const void* request,
+                                     size_t request_size, int32_t encoding,
+                                     const nucleate_collective_v1* collective,
+                                     nucleate_log_fn log, nucleate_progress_fn progress,
+                                     void* user_data, void** reply, size_t* reply_size,
+                                     char** message);
 } nucleate_plugin_v1;
 
 /* Type of nucleate_plugin_entry, for dlsym. */

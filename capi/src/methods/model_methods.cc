@@ -29,7 +29,21 @@ void HandleTrain(const v1::TrainRequest& request, v1::TrainReply* reply,
     return context.ReportProgress(fraction, "train");
   };
   const auto log = [&](const std::string& line) { context.Log(NUCLEATE_LOG_INFO, line); };
-  const train::TrainResult r = train::Train(settings, observer, log);
+  train::ProcessGroup group;
+  if (const nucleate_collective_v1* c = context.collective()) {
+    group.rank = c->rank;
+    group.size = c->size;
+    group.sum = [c](std::vector<double>* values) {
+      const int32_t code =
+          c->sum_doubles(values->data(), static_cast<int64_t>(values->size()), c->context);
+      if (code != 0) {
+        throw Error(ErrorKind::kCollective, "collective.sum_doubles",
+                    "the caller's sum failed with code " + std::to_string(code) + " on process " +
+                        std::to_string(c->rank));
+      }
+    };
+  }
+  const train::TrainResult r = train::Train(settings, observer, log, group);
 
   const auto& report = r.data_report;
   reply->set_structures_kept(report.structures_kept);
@@ -125,7 +139,9 @@ void HandleEvaluate(const v1::EvaluateRequest& request, v1::EvaluateReply* reply
 }  // namespace
 
 MethodEntry TrainMethod() {
-  return MakeMethod<v1::TrainRequest, v1::TrainReply, &HandleTrain>("Train");
+  MethodEntry entry = MakeMethod<v1::TrainRequest, v1::TrainReply, &HandleTrain>("Train");
+  entry.spans_processes = true;  // data-parallel: each process its share of every batch
+  return entry;
 }
 
 MethodEntry EvaluateMethod() {

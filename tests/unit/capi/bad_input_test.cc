@@ -187,6 +187,7 @@ TEST(BadArguments, NullPointersAndBadEncodingsAreRefused) {
 TEST(BadArguments, StatusNamesAreStableAndUnknownCodesAreNamedSo) {
   EXPECT_STREQ(nucleate_status_name(NUCLEATE_OK), "NUCLEATE_OK");
   EXPECT_STREQ(nucleate_status_name(NUCLEATE_ERROR_UNSUPPORTED), "NUCLEATE_ERROR_UNSUPPORTED");
+  EXPECT_STREQ(nucleate_status_name(NUCLEATE_ERROR_COLLECTIVE), "NUCLEATE_ERROR_COLLECTIVE");
   EXPECT_STREQ(nucleate_status_name(-1), "NUCLEATE_STATUS_UNKNOWN");
   EXPECT_STREQ(nucleate_status_name(9999), "NUCLEATE_STATUS_UNKNOWN");
 }

@@ -97,5 +97,57 @@ TEST(Encodings, FailedCallsReplyWithAnErrorDetailInTheCallersEncoding) {
   EXPECT_EQ(detail.field(), "variance.steps");
 }
 
+// nucleate_call_collective: the processes are checked before anything runs, and only a method
+// that shares its work (Train) accepts more than one.
+int32_t SumNothing(double*, int64_t, void*) { return 0; }
+
+std::string CollectiveField(const nucleate_collective_v1* collective, const char* method,
+                            nucleate_status* status) {
+  void* reply = nullptr;
+  size_t size = 0;
+  char* message = nullptr;
+  const std::string request = "{}";
+  *status = nucleate_call_collective(method, request.data(), request.size(),
+                                     NUCLEATE_ENCODING_JSON, collective, nullptr, nullptr,
+                                     nullptr, &reply, &size, &message);
+  v1::ErrorDetail detail;
+  if (*status != NUCLEATE_OK) {
+    EXPECT_TRUE(pb::util::JsonStringToMessage(std::string(static_cast<char*>(reply), size),
+                                              &detail).ok());
+    EXPECT_NE(std::string(message).find(detail.field()), std::string::npos) << message;
+  }
+  nucleate_free(reply);
+  nucleate_free(message);
+  return detail.field();
+}
+
+TEST(Collective, ProcessesAreCheckedAndOnlyTrainSpansThem) {
+  nucleate_status status = NUCLEATE_OK;
+  EXPECT_EQ(CollectiveField(nullptr, "Version", &status), "");
+  EXPECT_EQ(status, NUCLEATE_OK);
+  nucleate_collective_v1 one{sizeof(nucleate_collective_v1), 0, 1, nullptr, nullptr};
+  CollectiveField(&one, "Version", &status);
+  EXPECT_EQ(status, NUCLEATE_OK);
+
+  nucleate_collective_v1 two{sizeof(nucleate_collective_v1), 1, 2, &SumNothing, nullptr};
+  EXPECT_EQ(CollectiveField(&two, "Version", &status), "collective");
+  EXPECT_EQ(status, NUCLEATE_ERROR_INVALID_ARGUMENT);
+  nucleate_collective_v1 outside = two;
+  outside.rank = 2;
+  EXPECT_EQ(CollectiveField(&outside, "Train", &status), "collective.rank");
+  nucleate_collective_v1 no_sum = two;
+  no_sum.sum_doubles = nullptr;
+  EXPECT_EQ(CollectiveField(&no_sum, "Train", &status), "collective.sum_doubles");
+  nucleate_collective_v1 old = two;
+  old.struct_size = 8;
+  EXPECT_EQ(CollectiveField(&old, "Train", &status), "collective.struct_size");
+  nucleate_collective_v1 none = two;
+  none.size = 0;
+  EXPECT_EQ(CollectiveField(&none, "Train", &status), "collective.size");
+  // Train with two processes passes the check and fails on its (empty) configuration instead.
+  EXPECT_NE(CollectiveField(&two, "Train", &status).rfind("collective", 0), 0u);
+  EXPECT_NE(status, NUCLEATE_OK);
+}
+
 }  // namespace
 }  // namespace nucleate::test
