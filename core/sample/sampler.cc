@@ -129,8 +129,14 @@ SampleRun RunSamplingOn(const model::ModelBundle& bundle, const model::Diffusion
   std::condition_variable changed;
   std::exception_ptr failure;  // an error that is not a sample's own (e.g. out of memory)
 
+  // Only the calling thread reports; each count once, and the last one (all done) always, even
+  // when other workers finished the last steps after the calling thread ran out of samples.
+  std::int64_t last_reported = -1;
   const auto report = [&] {
-    if (observer && !stop && !observer(done.load(), total)) stop = true;
+    const std::int64_t now = done.load();
+    if (now == last_reported) return;
+    last_reported = now;
+    if (observer && !stop && !observer(now, total)) stop = true;
   };
   const auto work = [&](int worker) {
     Prediction scratch;
@@ -190,18 +196,15 @@ SampleRun RunSamplingOn(const model::ModelBundle& bundle, const model::Diffusion
   // The calling thread has no sample left: it reports while the others finish theirs.
   {
     std::unique_lock<std::mutex> lock(mutex);
-    std::int64_t reported = -1;
     while (running.load() > 0) {
       changed.wait_for(lock, std::chrono::milliseconds(50));
-      if (done.load() != reported) {
-        reported = done.load();
-        lock.unlock();
-        report();
-        lock.lock();
-      }
+      lock.unlock();
+      report();
+      lock.lock();
     }
   }
   for (std::thread& t : pool) t.join();
+  report();
   if (failure) std::rethrow_exception(failure);
 
   SampleRun run;

@@ -5,6 +5,9 @@
 // statistical (a stated number of standard errors of the sample size used).
 #include <gtest/gtest.h>
 
+#include <chrono>
+#include <thread>
+
 #include <algorithm>
 #include <cmath>
 #include <iostream>
@@ -123,6 +126,54 @@ TEST_P(GaussianData, MeanAndVarianceMatchTheData) {
 
 INSTANTIATE_TEST_SUITE_P(EverySampler, GaussianData, ::testing::ValuesIn(EverySampler()),
                          [](const auto& info) { return info.param.name; });
+
+// A denoiser whose second worker is slow (2 ms per prediction): the test below needs that
+// worker to finish last. The prediction itself is the wrapped one's, whatever the worker.
+class SlowSecondWorker : public DenoisingFunction {
+ public:
+  explicit SlowSecondWorker(const DenoisingFunction& inner) : inner_(inner) {}
+  void Predict(const ChainState& state, long long t, int worker, Prediction* out) const override {
+    if (worker == 1) std::this_thread::sleep_for(std::chrono::milliseconds(2));
+    inner_.Predict(state, t, worker, out);
+  }
+  int mask_token() const override { return inner_.mask_token(); }
+
+ private:
+  const DenoisingFunction& inner_;
+};
+
+// Only the calling thread (worker 0) reports progress. Its first reports take 1 ms each, so
+// worker 1 surely takes the second sample; worker 0 then finishes first and waits for worker 1,
+// and one report late in worker 1's chain takes 200 ms, during which worker 1 finishes. The reports must still end at the total: a caller's "100 %" line and its last chance
+// to cancel depend on it (before the fix this last report was lost: found by the CLI tests under
+// load).
+TEST(Progress, EndsAtTheTotalWhenAnotherWorkerFinishesLast) {
+  const model::ModelBundle bundle = AnalyticBundle(model::SpeciesMode::kGiven);
+  const model::DiffusionProcess process(bundle.schedules, bundle.architecture);
+  Eigen::Matrix3d lattice;
+  lattice << 0, 2.82, 2.82, 2.82, 0, 2.82, 2.82, 2.82, 0;
+  const testing::PointDenoiser point(process, model::LatticeToFeatures(lattice, 2),
+                                     {{0.0, 0.0, 0.0}, {0.5, 0.5, 0.5}});
+  const SlowSecondWorker denoiser(point);
+  std::vector<std::int64_t> reports;
+  bool waited = false;
+  const SampleRun run = RunSamplingWith(
+      bundle, denoiser, CompositionJob(Make(SamplerKind::kDdim, 50), 2),
+      [&](std::int64_t done, std::int64_t) {
+        reports.push_back(done);
+        if (done < 50) std::this_thread::sleep_for(std::chrono::milliseconds(1));
+        if (done >= 90 && !waited) {
+          waited = true;
+          std::this_thread::sleep_for(std::chrono::milliseconds(200));
+        }
+        return true;
+      });
+  EXPECT_FALSE(run.cancelled);
+  EXPECT_TRUE(waited);
+  ASSERT_FALSE(reports.empty());
+  EXPECT_EQ(reports.back(), 2 * 50);
+  for (std::size_t i = 1; i < reports.size(); ++i) EXPECT_LT(reports[i - 1], reports[i]);
+}
 
 class SingleStructure : public ::testing::TestWithParam<SamplerCase> {};
 
