@@ -1,11 +1,16 @@
 #!/usr/bin/env bash
-# The main job on the shipped defaults. For now: design the noise schedules for crystal generation
-# from physical targets, print the designed tables and write plots. (Structure generation arrives with the
-# model and sampling work.)
+# The main job on the shipped defaults: the Tidewall demo (integrations/demo/SCENARIO.md; the
+# scenario, its names and its data are invented). The shipped demo model proposes candidate
+# structures for four compositions it never saw in training (its test split) and de novo
+# candidates; every candidate is checked (distances, symmetry, charge balance, toxic and
+# radioactive elements), duplicates are grouped, and each run writes CIF, extended XYZ, a
+# JSON-lines summary and a self-contained HTML report. Candidates are hypotheses, not
+# predictions of stable compounds.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 build="${NUCLEATE_BUILD_DIR:-$root/build}"
 out="${1:-$root/out/demo}"
+model="$root/integrations/demo/model/demo.nucleate"
 
 "$root/scripts/install-deps.sh"
 "$root/scripts/build.sh" -DNUCLEATE_BUILD_TESTS=OFF
@@ -14,24 +19,19 @@ mkdir -p "$out"
 
 "$nucleate" version
 echo
-echo "== Designing schedules for 1000 steps: lattice noise from SNR 1e4 down to 1e-4;"
-echo "   coordinates resolved to 0.02 A on a 5 A cell at the finest level, and within 0.005"
-echo "   (total variation) of uniform at the coarsest"
-"$nucleate" design --steps 1000 --initial-snr 1e4 --terminal-snr 1e-4 --resolution 0.02 \
-  --cell-length 5 --tv-distance 0.005 --json > "$out/design.json"
-"$nucleate" design --steps 1000 --initial-snr 1e4 --terminal-snr 1e-4 --resolution 0.02 \
-  --cell-length 5 --tv-distance 0.005
+"$nucleate" model info "$model"
+# Held out from training (the test split of integrations/demo/train_demo.yaml): a chalcogenide,
+# an oxide, a fluoride and an intermetallic phase of the scenario's screen.
+for formula in CaS K2O AgF AlCu; do
+  echo
+  echo "== Structure prediction for $formula (8 candidates)"
+  "$nucleate" sample --model "$model" --composition "$formula" --count 8 --seed 1 \
+    --symmetrise --force --out "$out/$formula"
+done
 echo
-echo "== The designed lattice-noise schedule, every 100th of its 1000 steps"
-"$nucleate" schedule --design "$out/design.json" --respace 10 --format table \
-  --plot "$out/lattice_log_snr.svg"
-"$nucleate" schedule --design "$out/design.json" --format csv > "$out/lattice_schedule.csv"
+echo "== De novo candidates (16; compositions proposed by the model)"
+"$nucleate" sample --model "$model" --de-novo --count 16 --seed 1 --force --out "$out/de-novo"
 echo
-echo "== The designed coordinate-noise ladder on the unit torus (wrapped normal), 10 levels"
-"$nucleate" schedule --design "$out/design.json" --kind geometric --steps 10 --format table \
-  --plot "$out/coordinate_sigma.svg"
-"$nucleate" schedule --design "$out/design.json" --kind geometric --format csv \
-  > "$out/coordinate_sigma.csv"
-echo
-echo "Wrote $out: design.json, lattice_schedule.csv, coordinate_sigma.csv,"
-echo "      lattice_log_snr.svg, coordinate_sigma.svg"
+echo "Reports: $out/<run>/report.html (open in a browser); CIF, extended XYZ and summary.jsonl"
+echo "beside each. Candidates are hypotheses: confirm them with DFT, and follow local safety"
+echo "rules and licensed practice for any element flagged toxic or radioactive."
