@@ -19,8 +19,11 @@ if [[ $# -ne 1 ]]; then
   echo "usage: $0 BUILD_DIR" >&2
   exit 2
 fi
-build=$1
+build=$(cd "$1" && pwd)
 here=$(cd "$(dirname "$0")" && pwd)
 cmake --build "$build" --target conformance_regenerate_replies
+# In the folder CMake prepared (data/ linked), as the runners run: requests name files relative
+# to the working directory.
+cd "$build/tests/conformance/run-regenerate"
 "$build/tests/conformance/conformance_regenerate_replies" "$here/cases"
 echo "now review: git diff -- tests/conformance/cases"
