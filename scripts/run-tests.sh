@@ -10,5 +10,5 @@ build="${NUCLEATE_BUILD_DIR:-$root/build}"
 
 cd "$build"
 # One run of the whole suite; the label summary at the end shows each group
-# (unit, abi, conformance, reference, cli, integrations, consumers) with its time.
+# (unit, abi, conformance, reference, cli, integrations, consumers, slurm) with its time.
 ctest --output-on-failure -j "$(nproc)"

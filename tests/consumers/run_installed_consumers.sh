@@ -44,6 +44,15 @@ check_loads_from() {
   done <<<"$resolved"
 }
 
+# Runs a conformance runner as tests/conformance/README.md says: in a folder with a `data` link to
+# the committed conformance data (requests name data/tiny.nucleate; Train writes there).
+in_conformance_folder() {
+  local folder="$work/conformance-run"
+  mkdir -p "$folder"
+  [[ -e $folder/data ]] || ln -s "$tests/conformance/data" "$folder/data"
+  (cd "$folder" && "$@")
+}
+
 # Configures, builds and runs the find_package consumer against `prefix`.
 run_find_package_consumer() {
   local prefix=$1 out=$2 cases="$tests/conformance/cases"
@@ -56,14 +65,14 @@ run_find_package_consumer() {
   check_loads_from "$out/c_call_test" "$prefix"
   "$out/c_call_test"
   "$out/dlopen_plugin_test" "$prefix/$libdir/libnucleate.so"
-  "$out/run_conformance" "$cases"
-  "$out/run_conformance_plugin" "$prefix/$libdir/libnucleate.so" "$cases"
+  in_conformance_folder "$out/run_conformance" "$cases"
+  in_conformance_folder "$out/run_conformance_plugin" "$prefix/$libdir/libnucleate.so" "$cases"
   if [[ $fortran == ON ]]; then
     check_loads_from "$out/fortran_schedule_test" "$prefix"
     "$out/fortran_schedule_test"
     "$out/fortran_structure_test"
     find "$cases" -mindepth 1 -maxdepth 1 -type d -printf '%f\n' | sort >"$out/cases.txt"
-    "$out/run_conformance_fortran" "$cases" "$out/cases.txt"
+    in_conformance_folder "$out/run_conformance_fortran" "$cases" "$out/cases.txt"
   fi
 }
 
@@ -136,7 +145,8 @@ step "public header alone, strict C99 and C++17"
 step "installed command-line tool"
 check_loads_from "$prefix/bin/nucleate" "$prefix"
 "$prefix/bin/nucleate" version | grep -qF "nucleate $version " || fail "bin/nucleate version"
-bash "$tests/conformance/run_conformance_cli.sh" "$prefix/bin/nucleate" "$tests/conformance/cases"
+in_conformance_folder bash "$tests/conformance/run_conformance_cli.sh" "$prefix/bin/nucleate" \
+  "$tests/conformance/cases"
 
 step "find_package consumer"
 run_find_package_consumer "$prefix" "$work/find_package"
