@@ -25,10 +25,6 @@ unset SLURM_ARRAY_TASK_ID SLURM_ARRAY_TASK_COUNT SLURM_ARRAY_TASK_MIN SLURM_CPUS
 train_tiny_model "$cli" tiny
 model=tiny/model.nucleate
 
-# The candidate files of a folder (or of several), one "name checksum" line each, sorted by name.
-listing() { find "$@" -maxdepth 1 -type f -name 'sample-*' -exec cksum {} + |
-  awk '{n = split($3, p, "/"); print p[n], $1, $2}' | LC_ALL=C sort; }
-
 "$SAMPLE_CANDIDATES" $model NaCl 11 0 8 serial >serial.tsv 2>serial.err
 expect $? "the serial run: $(tail -n 2 serial.err)"
 [[ $(listing serial | wc -l) -eq 8 ]]

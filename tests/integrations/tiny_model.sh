@@ -1,4 +1,5 @@
-# What the integration tests share: a check counter and a tiny model trained in seconds.
+# What the integration tests share: a check counter, a tiny model trained in seconds, and a
+# listing of candidate files to compare runs byte for byte.
 # Sourced by each test script: source tiny_model.sh
 
 failures=0
@@ -9,6 +10,10 @@ expect() {
     echo "FAILED: $2"
   fi
 }
+
+# The candidate files of a folder (or of several), one "name checksum" line each, sorted by name.
+listing() { find "$@" -maxdepth 1 -type f -name 'sample-*' -exec cksum {} + |
+  awk '{n = split($3, p, "/"); print p[n], $1, $2}' | LC_ALL=C sort; }
 
 # train_tiny_model CLI DIR: DIR/model.nucleate, trained with `CLI train` on two rock-salt cells in
 # their primitive settings (a/sqrt(2) at 60 degrees): NaCl, a = 5.64 A, and KCl, a = 6.29 A

@@ -32,10 +32,6 @@ trap 'rm -rf "$work"' EXIT
 cd "$work" || exit 1
 unset SLURM_ARRAY_TASK_ID SLURM_ARRAY_TASK_COUNT SLURM_ARRAY_TASK_MIN SLURM_CPUS_PER_TASK
 
-# The candidate files of a folder (or of several), one "name checksum" line each, sorted by name.
-listing() { find "$@" -maxdepth 1 -type f -name 'sample-*' -exec cksum {} + |
-  awk '{n = split($3, p, "/"); print p[n], $1, $2}' | LC_ALL=C sort; }
-
 train_tiny_model "$cli" tiny
 model=$work/tiny/model.nucleate
 "$SAMPLE_CANDIDATES" "$model" NaCl 11 0 8 serial >serial.tsv 2>serial.err
