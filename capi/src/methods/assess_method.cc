@@ -6,10 +6,10 @@
 #include "core/assess/assessment.h"
 #include "core/assess/held_out_split.h"
 #include "core/common/error.h"
-#include "core/model/bundle/bundle_file.h"
 #include "core/structure/validate.h"
 #include "core/train/train_config.h"
 #include "methods/match_methods.h"
+#include "methods/requested_model.h"
 #include "methods/sample_method.h"
 #include "methods/structure_inputs.h"
 #include "nucleate/v1/assess.pb.h"
@@ -168,7 +168,7 @@ void HandleAssess(const v1::AssessRequest& request, v1::AssessReply* reply,
     data.held_out = ReadAll(request.held_out(), limits, "held_out");
     data.training = ReadAll(request.training(), limits, "training");
   }
-  const model::ModelBundle bundle = model::LoadModelBundle(request.model_path());
+  const model::ModelBundle bundle = LoadRequestedModel(request.model_path(), "model_path");
   if (from_config) {
     assess::RebuiltSplit split = assess::RebuildSplit(config, bundle);
     context.Log(

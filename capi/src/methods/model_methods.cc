@@ -11,6 +11,7 @@
 #include "core/model/evaluate.h"
 #include "core/train/train_config.h"
 #include "core/train/trainer.h"
+#include "methods/requested_model.h"
 #include "methods/structure_inputs.h"
 #include "nucleate/v1/evaluate.pb.h"
 #include "nucleate/v1/model.pb.h"
@@ -73,7 +74,7 @@ void HandleTrain(const v1::TrainRequest& request, v1::TrainReply* reply,
 void HandleModelInfo(const v1::ModelInfoRequest& request, v1::ModelInfoReply* reply,
                      const CallContext&) {
   if (request.path().empty()) throw InvalidArgument("path", "required: the model file to describe");
-  const model::ModelBundle bundle = model::LoadModelBundle(request.path());
+  const model::ModelBundle bundle = LoadRequestedModel(request.path(), "path");
   v1::ModelBundle message;
   model::ToMessage(bundle, &message);
   reply->set_format_version(message.format_version());
@@ -122,7 +123,7 @@ void HandleEvaluate(const v1::EvaluateRequest& request, v1::EvaluateReply* reply
     in.properties.assign(sorted.begin(), sorted.end());
     inputs.push_back(std::move(in));
   }
-  const model::ModelBundle bundle = model::LoadModelBundle(request.model_path());
+  const model::ModelBundle bundle = LoadRequestedModel(request.model_path(), "model_path");
   for (const model::EvaluationOutput& out : model::EvaluateModel(bundle, inputs)) {
     v1::EvaluateOutput* o = reply->add_outputs();
     for (int i = 0; i < out.coordinate_score.rows(); ++i) {

@@ -5,13 +5,13 @@
 #include <vector>
 
 #include "core/common/require.h"
-#include "core/model/bundle/bundle_file.h"
 #include "core/sample/sampler.h"
 #include "core/structure/composition.h"
 #include "core/symmetry/symmetry.h"
 #include "error_detail.h"
 #include "methods/candidate_groups.h"
 #include "methods/match_methods.h"
+#include "methods/requested_model.h"
 #include "methods/structure_inputs.h"
 #include "methods/structure_report.h"
 #include "methods/within_field.h"
@@ -149,7 +149,7 @@ void HandleSample(const v1::SampleRequest& request, v1::SampleReply* reply,
   const sample::SampleJob job = JobFromMessage(request, input_limits);
   reply->set_caution(CandidateCaution());
 
-  const model::ModelBundle bundle = model::LoadModelBundle(request.model_path());
+  const model::ModelBundle bundle = LoadRequestedModel(request.model_path(), "model_path");
   const sample::SampleRun run = sample::RunSampling(
       bundle, job, [&](std::int64_t done, std::int64_t total) {
         return context.ReportProgress(static_cast<double>(done) / static_cast<double>(total),

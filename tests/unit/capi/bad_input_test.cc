@@ -4,8 +4,11 @@
 
 #include <gtest/gtest.h>
 
+#include <google/protobuf/util/json_util.h>
+
 #include "call_helpers.h"
 #include "dispatch.h"
+#include "nucleate/v1/error.pb.h"
 
 namespace nucleate::test {
 namespace {
@@ -182,6 +185,31 @@ TEST(BadArguments, NullPointersAndBadEncodingsAreRefused) {
   ASSERT_EQ(nucleate_call("Version", nullptr, 0, NUCLEATE_ENCODING_BINARY, &reply, &size, nullptr),
             NUCLEATE_OK);
   nucleate_free(reply);
+}
+
+// A model file that cannot be read is reported against the request field that named it, with the
+// path in the message: the caller learns which field to change (not a path to look for).
+TEST(BadModelFile, ErrorNamesTheRequestFieldAndThePath) {
+  const struct {
+    const char* method;
+    const char* request;
+    const char* field;
+    nucleate_status status;
+  } cases[] = {
+      {"ModelInfo", R"({"path":"/nonexistent/m.nucleate"})", "path", NUCLEATE_ERROR_IO},
+      {"ModelInfo", R"({"path":"/etc/hostname"})", "path", NUCLEATE_ERROR_INVALID_ARGUMENT},
+      {"Evaluate", R"({"model_path":"/nonexistent/m.nucleate"})", "model_path", NUCLEATE_ERROR_IO},
+      {"Sample", R"({"model_path":"/nonexistent/m.nucleate","composition":{"formula":"NaCl"}})",
+       "model_path", NUCLEATE_ERROR_IO},
+  };
+  for (const auto& c : cases) {
+    const CallResult r = Call(c.method, c.request);
+    EXPECT_EQ(r.status, c.status) << c.method << ": " << r.message;
+    v1::ErrorDetail detail;
+    ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.reply, &detail).ok()) << r.reply;
+    EXPECT_EQ(detail.field(), c.field) << r.message;
+    EXPECT_NE(r.message.find(std::string(c.field) + ": /"), std::string::npos) << r.message;
+  }
 }
 
 TEST(BadArguments, StatusNamesAreStableAndUnknownCodesAreNamedSo) {
