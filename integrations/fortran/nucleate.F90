@@ -328,18 +328,8 @@ contains
     space_group = 0
     min_distance = 0
     density = 0
-    call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
-                            nucleate_structure_json(lattice, frac, numbers) // '}]}', reply, &
-                            status, message)
+    call check_one(lattice, frac, numbers, reply, status, message)
     if (status /= NUCLEATE_OK) return
-    ! A structure that could not be checked carries its own error inside the reply.
-    call reply_real('Check', reply, 'reports.error.code', value, status, message)
-    if (status /= NUCLEATE_OK) return
-    if (nint(value) /= NUCLEATE_OK) then
-      status = nint(value)
-      message = extract_error_message(reply)
-      return
-    end if
     call reply_real('Check', reply, 'reports.valid', value, status, message)
     if (status /= NUCLEATE_OK) return
     valid = value /= 0
@@ -550,6 +540,27 @@ contains
     end if
   end subroutine
 
+  ! The Check reply for one structure. A structure that could not be checked carries its own
+  ! error inside the reply; that error becomes the status and message here.
+  subroutine check_one(lattice, frac, numbers, reply, status, message)
+    real(c_double), intent(in) :: lattice(3, 3), frac(:, :)
+    integer, intent(in) :: numbers(:)
+    character(len=:), allocatable, intent(out) :: reply
+    integer, intent(out) :: status
+    character(len=:), allocatable, intent(out) :: message
+    real(c_double) :: value
+    call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
+                            nucleate_structure_json(lattice, frac, numbers) // '}]}', reply, &
+                            status, message)
+    if (status /= NUCLEATE_OK) return
+    call reply_real('Check', reply, 'reports.error.code', value, status, message)
+    if (status /= NUCLEATE_OK) return
+    if (nint(value) /= NUCLEATE_OK) then
+      status = nint(value)
+      message = extract_error_message(reply)
+    end if
+  end subroutine
+
   !> The elements of a structure that the library's element tables flag as toxic and as
   !> radioactive: symbols joined by commas (e.g. 'Cd,Se'), blank when none. Flags are for handling
   !> under local safety rules and licensed practice, not failures. Arguments as for
@@ -561,20 +572,10 @@ contains
     integer, intent(out) :: status
     character(len=:), allocatable, intent(out) :: message
     character(len=:), allocatable :: reply
-    real(c_double) :: value
     toxic = ''
     radioactive = ''
-    call nucleate_call_json('Check', '{"inputs":[{"structure":' // &
-                            nucleate_structure_json(lattice, frac, numbers) // '}]}', reply, &
-                            status, message)
+    call check_one(lattice, frac, numbers, reply, status, message)
     if (status /= NUCLEATE_OK) return
-    call reply_real('Check', reply, 'reports.error.code', value, status, message)
-    if (status /= NUCLEATE_OK) return
-    if (nint(value) /= NUCLEATE_OK) then
-      status = nint(value)
-      message = extract_error_message(reply)
-      return
-    end if
     ! One structure, one report: each list's name occurs once in the reply.
     toxic = json_string_list(reply, 'toxic_elements')
     radioactive = json_string_list(reply, 'radioactive_elements')
