@@ -1,9 +1,9 @@
+#include "core/common/thread_count.h"
 #include "core/assess/assessment.h"
 
 #include <algorithm>
 #include <cmath>
 #include <set>
-#include <thread>
 
 #include "core/assess/candidate_checks.h"
 #include "core/assess/composition_targets.h"
@@ -34,7 +34,7 @@ void ValidateAssessSettings(const AssessSettings& s) {
     throw InvalidArgument("candidates_per_composition", "must be >= 1");
   }
   if (s.de_novo_count < 0) throw InvalidArgument("de_novo_count", "must be >= 0 (0 = none)");
-  if (s.threads < 0) throw InvalidArgument("threads", "must be >= 0 (0 = every core)");
+  ResolveThreadCount(s.threads);
   RequirePositiveFinite("min_distance", s.min_distance);
   RequirePositiveFinite("symprec", s.symprec);
   try {
@@ -120,10 +120,6 @@ void MatchComposition(const sample::SampleRun& run, std::uint32_t first_index,
   row->finished = static_cast<int>(n);
 }
 
-int ResolveThreads(int threads) {
-  return threads > 0 ? threads
-                     : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-}
 
 Mean MeanOf(const std::vector<double>& values) {
   Mean m;
@@ -148,7 +144,7 @@ Assessment Assess(const model::ModelBundle& bundle, const AssessData& data, cons
   const CompositionChoice choice =
       ChooseCompositions(data.held_out, bundle.architecture, s.compositions, s.limits.max_atoms);
   const int k_candidates = s.candidates_per_composition;
-  const int threads = ResolveThreads(s.threads);
+  const int threads = ResolveThreadCount(s.threads);
   const bool generates_species = bundle.architecture.species_mode == model::SpeciesMode::kAbsorbing;
   const std::int64_t de_novo = generates_species ? s.de_novo_count : 0;
   const std::int64_t all =

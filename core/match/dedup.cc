@@ -1,10 +1,10 @@
+#include "core/common/thread_count.h"
 #include "core/match/dedup.h"
 
 #include <algorithm>
 #include <atomic>
 #include <limits>
 #include <string>
-#include <thread>
 
 #include "core/common/error.h"
 #include "core/match/candidate_index.h"
@@ -20,12 +20,6 @@ namespace {
 // chunk (its unmatched members matched against each other, which grows with the square of the
 // chunk) stays a small share of the work.
 constexpr std::size_t kChunk = 512;
-
-int ThreadCount(int threads) {
-  if (threads < 0) throw InvalidArgument("threads", "must be >= 0 (0: all hardware threads)");
-  if (threads == 0) return static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  return threads;
-}
 
 struct Prepared {
   std::vector<PreparedCrystal> crystals;
@@ -119,7 +113,7 @@ int FirstMatch(const PreparedCrystal& mover, const Prepared& targets,
 
 DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
                         const MatchTolerances& tolerances, int threads, DedupScreen screen) {
-  const int workers = ThreadCount(threads);
+  const int workers = ResolveThreadCount(threads);
   const Prepared p = PrepareAll(structures, tolerances, screen, workers, "structures");
   const int n = static_cast<int>(structures.size());
 
@@ -206,7 +200,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
 NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
                       const std::vector<structure::Crystal>& references,
                       const MatchTolerances& tolerances, int threads, DedupScreen screen) {
-  const int workers = ThreadCount(threads);
+  const int workers = ResolveThreadCount(threads);
   const Prepared c = PrepareAll(candidates, tolerances, screen, workers, "candidates");
   const Prepared r = PrepareAll(references, tolerances, screen, workers, "references");
   CandidateIndex index(screen, tolerances);

@@ -34,7 +34,8 @@ struct DedupResult {
 // in parallel against the representatives of earlier chunks; then its unmatched members are
 // matched in parallel against each other (each against the lower ones, up to the first match)
 // and resolved in order. `threads` >= 1; 0 means std::thread::hardware_concurrency().
-// Raises InvalidArgument("threads") for a negative count, and any error of Prepare for
+// Raises InvalidArgument("threads") for a negative count, LimitExceeded("threads") above
+// kMaxThreads (core/common/thread_count.h), and any error of Prepare for
 // structure k inside field "structures[k]" (the lowest such k).
 DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
                         const MatchTolerances& tolerances, int threads,

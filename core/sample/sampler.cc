@@ -1,3 +1,4 @@
+#include "core/common/thread_count.h"
 #include "core/sample/sampler.h"
 
 #include <algorithm>
@@ -19,11 +20,6 @@
 namespace nucleate::sample {
 namespace {
 
-int ResolveThreads(int threads) {
-  if (threads < 0) throw InvalidArgument("threads", "must be >= 0 (0 = every core)");
-  if (threads == 0) return static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  return threads;
-}
 
 // Network calls per sample: one per level, one more per corrector step or Heun correction, twice
 // that when guidance needs both the conditional and the unconditional prediction.
@@ -83,7 +79,7 @@ namespace {
 SampleRun RunSamplingOn(const model::ModelBundle& bundle, const model::DiffusionProcess& process,
                         const DenoisingFunction& denoiser, const SampleJob& job,
                         const SampleObserver& observer) {
-  const int threads = ResolveThreads(job.threads);
+  const int threads = ResolveThreadCount(job.threads);
   if (job.count < 1) throw InvalidArgument("count", "must be >= 1");
   if (static_cast<std::int64_t>(job.count) > job.limits.max_count) {
     throw LimitExceeded("limits.max_count", std::to_string(job.count) +
@@ -230,7 +226,7 @@ SampleRun RunSampling(const model::ModelBundle& bundle, const SampleJob& job,
                       const SampleObserver& observer) {
   const model::DiffusionProcess process(bundle.schedules, bundle.architecture);
   const NetworkDenoiser denoiser(bundle, process, job.conditions.guidance,
-                                 ResolveThreads(job.threads));
+                                 ResolveThreadCount(job.threads));
   return RunSamplingOn(bundle, process, denoiser, job, observer);
 }
 

@@ -3,8 +3,16 @@
 // Then g_k = x . b_k, so |g_k| <= |x| |b_k|. If some candidate image has length r0, every image at
 // least as short has |g_k| <= r0 |b_k| along each axis k: enumerating those integer offsets finds
 // the true minimum for any lattice. Reducing the lattice first only keeps r0 |b_k| small.
+//
+// Inside that box only the offsets within the sphere of radius r0 are visited (Fincke-Pohst
+// enumeration): with the reduced vectors as columns C = Q R (R upper triangular), |x|^2 is
+// sum_i (R_ii z_i + sum_{j>i} R_ij z_j)^2, so once the outer coordinates are chosen each inner one
+// lies in an interval. The longest vector is outermost. Without this, a long thin cell (a 500 A
+// axis beside 1 A axes) has r0 |b_k| of hundreds along each short axis and the box holds millions
+// of offsets per pair, nearly all outside the sphere.
 #include "core/structure/periodic_distances.h"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -19,6 +27,8 @@ namespace {
 
 // Enlarges the bound by a few ulps so rounding in r0 and |b_k| cannot drop the true minimum.
 constexpr double kBoundSlack = 1e-12;
+// Relative slack of the sphere intervals (see Search).
+constexpr double kSphereSlack = 1e-9;
 // Below this many sites all pairs are cheaper than building cell lists.
 constexpr std::size_t kAllPairsSites = 64;
 
@@ -28,6 +38,12 @@ MinimumImage::MinimumImage(const Eigen::Matrix3d& lattice)
     : lattice_(lattice), reduced_(ReduceLattice(lattice)) {
   to_reduced_ = reduced_.inverse.transpose().cast<double>();
   reciprocal_norms_ = ReciprocalLattice(reduced_.lattice).rowwise().norm();
+  order_ = {0, 1, 2};
+  const Eigen::Vector3d lengths = reduced_.lattice.rowwise().norm();
+  std::sort(order_.data(), order_.data() + 3, [&](int a, int b) { return lengths[a] < lengths[b]; });
+  Eigen::Matrix3d columns;
+  for (int i = 0; i < 3; ++i) columns.col(i) = reduced_.lattice.row(order_[i]).transpose();
+  triangle_ = columns.householderQr().matrixQR().triangularView<Eigen::Upper>();
   shortest_ = Search(Eigen::Vector3d::Zero(), /*exclude_zero=*/true);
 }
 
@@ -43,26 +59,51 @@ ImageVector MinimumImage::Search(const Eigen::Vector3d& frac_delta, bool exclude
   } else {
     r0 = (reduced_.lattice.transpose() * g0).norm();
   }
-  const double r = r0 * (1 + kBoundSlack);
-  int lo[3], hi[3];
-  for (int k = 0; k < 3; ++k) {
-    lo[k] = static_cast<int>(std::ceil(-g0[k] - r * reciprocal_norms_[k]));
-    hi[k] = static_cast<int>(std::floor(-g0[k] + r * reciprocal_norms_[k]));
-  }
+  double radius2 = r0 * r0;
+  // The offsets allowed along reduced axis k by the box bound and by the sphere interval
+  // [centre - half, centre + half] of z_k = g0_k + n_k; empty when lo > hi.
+  auto offsets = [&](int k, double centre, double half, int* lo, int* hi) {
+    const double box = std::sqrt(radius2) * (1 + kBoundSlack) * reciprocal_norms_[k];
+    const double lo_box = std::ceil(-g0[k] - box), hi_box = std::floor(-g0[k] + box);
+    // The sphere interval gets a slack of its own: rounding in R must never drop the minimum, and
+    // an offset visited in excess only costs one distance.
+    const double slack = kSphereSlack * (half + std::fabs(centre) + 1.0);
+    *lo = static_cast<int>(std::max(lo_box, std::ceil(centre - half - slack - g0[k])));
+    *hi = static_cast<int>(std::min(hi_box, std::floor(centre + half + slack - g0[k])));
+  };
+  auto remaining = [&](double used) { return std::max(0.0, radius2 * (1 + kSphereSlack) - used); };
   double best2 = std::numeric_limits<double>::infinity();
   Eigen::Vector3d best_vector = Eigen::Vector3d::Zero();
   Eigen::Vector3i best_n = Eigen::Vector3i::Zero();
-  for (int n0 = lo[0]; n0 <= hi[0]; ++n0) {
-    for (int n1 = lo[1]; n1 <= hi[1]; ++n1) {
-      for (int n2 = lo[2]; n2 <= hi[2]; ++n2) {
-        if (exclude_zero && n0 == 0 && n1 == 0 && n2 == 0) continue;
-        const Eigen::Vector3d v =
-            reduced_.lattice.transpose() * (g0 + Eigen::Vector3d(n0, n1, n2));
+  const Eigen::Matrix3d& R = triangle_;
+  const int k0 = order_[0], k1 = order_[1], k2 = order_[2];
+  Eigen::Vector3i n;
+  int lo2, hi2;
+  offsets(k2, 0.0, std::sqrt(remaining(0)) / std::fabs(R(2, 2)), &lo2, &hi2);
+  for (n[k2] = lo2; n[k2] <= hi2; ++n[k2]) {
+    const double z2 = g0[k2] + n[k2];
+    const double used2 = (R(2, 2) * z2) * (R(2, 2) * z2);
+    const double centre1 = -R(1, 2) * z2 / R(1, 1);
+    int lo1, hi1;
+    offsets(k1, centre1, std::sqrt(remaining(used2)) / std::fabs(R(1, 1)), &lo1, &hi1);
+    for (n[k1] = lo1; n[k1] <= hi1; ++n[k1]) {
+      const double z1 = g0[k1] + n[k1];
+      const double t1 = R(1, 1) * z1 + R(1, 2) * z2;
+      const double centre0 = -(R(0, 1) * z1 + R(0, 2) * z2) / R(0, 0);
+      int lo0, hi0;
+      offsets(k0, centre0, std::sqrt(remaining(used2 + t1 * t1)) / std::fabs(R(0, 0)), &lo0, &hi0);
+      for (n[k0] = lo0; n[k0] <= hi0; ++n[k0]) {
+        if (exclude_zero && n.isZero()) continue;
+        const Eigen::Vector3d v = reduced_.lattice.transpose() * (g0 + n.cast<double>());
         const double d2 = v.squaredNorm();
-        if (d2 < best2) {
+        // Exact ties go to the lexicographically smallest offset, so the image chosen does not
+        // depend on the enumeration order.
+        if (d2 < best2 || (d2 == best2 && std::lexicographical_compare(
+                                              n.data(), n.data() + 3, best_n.data(), best_n.data() + 3))) {
           best2 = d2;
           best_vector = v;
-          best_n = {n0, n1, n2};
+          best_n = n;
+          radius2 = std::min(radius2, best2);
         }
       }
     }

@@ -44,6 +44,10 @@ class MinimumImage {
   ReducedLattice reduced_;
   Eigen::Matrix3d to_reduced_;      // reduced fractional = to_reduced_ * fractional
   Eigen::Vector3d reciprocal_norms_;  // |b'_k| of the reduced lattice
+  // The enumeration order (shortest reduced vector innermost) and the triangular factor R of the
+  // reduced vectors taken in that order as columns: see periodic_distances.cc.
+  Eigen::Vector3i order_;
+  Eigen::Matrix3d triangle_;
   ImageVector shortest_;
 };
 

@@ -1,3 +1,4 @@
+#include "core/common/message_text.h"
 #include "core/train/checkpoint.h"
 
 #include "core/common/error.h"
@@ -26,6 +27,7 @@ void SaveCheckpoint(const std::string& path, const Checkpoint& c) {
   m.set_epochs_done(c.epochs_done);
   m.set_run_digest(c.run_digest);
   *m.mutable_validation_losses() = {c.validation_losses.begin(), c.validation_losses.end()};
+  RepairStringFields(&m);
   std::string payload;
   if (!m.SerializeToString(&payload)) throw Internal("could not serialise a training checkpoint");
   model::WriteFileAtomically(path, model::SealFile(kCheckpointMagic, kCheckpointFormatVersion, payload));
@@ -39,7 +41,7 @@ Checkpoint LoadCheckpoint(const std::string& path) {
   const model::UnsealedFile file =
       model::UnsealFile(bytes, kCheckpointMagic, kCheckpointFormatVersion, max_bytes, path);
   v1::TrainingCheckpoint m;
-  if (!m.ParseFromString(file.payload)) {
+  if (!ParseQuietly(file.payload, &m)) {
     throw InvalidArgument(path, "the checkpoint's content cannot be parsed (damaged file)");
   }
   Checkpoint c;

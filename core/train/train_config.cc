@@ -1,3 +1,4 @@
+#include "core/common/thread_count.h"
 #include "core/train/train_config.h"
 
 #include <cmath>
@@ -229,7 +230,8 @@ void ReadTraining(Section s, OptimisationSettings* o) {
   s.Check("all_conditions_dropout", o->dropout.all >= 0 && o->dropout.all <= 1,
           "must lie in [0, 1]");
   s.Read("threads", &o->threads);
-  s.Check("threads", o->threads >= 0, "must be >= 0 (0: all hardware threads)");
+  s.Check("threads", o->threads >= 0 && o->threads <= kMaxThreads,
+          "must be 0 (all hardware threads) to " + std::to_string(kMaxThreads));
   s.Read("checkpoint_every_epochs", &o->checkpoint_every_epochs);
   s.Check("checkpoint_every_epochs", o->checkpoint_every_epochs >= 1, "must be >= 1");
   s.Finish();

@@ -1,3 +1,4 @@
+#include "core/common/thread_count.h"
 #include "core/train/trainer.h"
 
 #include <chrono>
@@ -6,7 +7,6 @@
 #include <iomanip>
 #include <limits>
 #include <sstream>
-#include <thread>
 
 #include "core/common/error.h"
 #include "core/common/sha256.h"
@@ -290,8 +290,7 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
 
   const model::Denoiser net(set.architecture);
   const model::DiffusionProcess process(s.diffusion, set.architecture);
-  const int threads = o.threads > 0 ? o.threads
-                                    : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
+  const int threads = ResolveThreadCount(o.threads, "options.threads");
   Workspace workspace;
   workspace.caches.resize(threads);
   workspace.outputs.resize(threads);

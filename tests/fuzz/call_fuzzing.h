@@ -9,9 +9,15 @@
 #include <cstdio>
 #include <cstdlib>
 #include <cstring>
+#include <memory>
 #include <string>
+#include <string_view>
 #include <vector>
 
+#include <google/protobuf/descriptor.h>
+#include <google/protobuf/message.h>
+
+#include "core/common/utf8.h"
 #include "nucleate/nucleate.h"
 #include "nucleate/v1/error.pb.h"
 #include "nucleate/v1/service.pb.h"
@@ -101,7 +107,8 @@ inline void ReadLogLine(int32_t level, const char* line, void*) {
 
 // One call. Besides crashes, it stops on what nucleate.h promises never happens: an INTERNAL
 // status ("a bug, please report it"), a failure without a one-line message or a success with
-// one, and a JSON reply without its terminating NUL.
+// one, a JSON reply without its terminating NUL or not in UTF-8, and a binary reply that does not
+// parse as the message the status promises.
 inline void CallWithFuzzInput(const uint8_t* data, size_t size, int32_t encoding) {
   if (size == 0) return;
   const std::string& method = FuzzedMethods()[data[0] % FuzzedMethods().size()];
@@ -126,11 +133,24 @@ inline void CallWithFuzzInput(const uint8_t* data, size_t size, int32_t encoding
   } else if (encoding == NUCLEATE_ENCODING_JSON && reply != nullptr &&
              static_cast<const char*>(reply)[reply_size] != '\0') {
     broken = "JSON reply without its terminating NUL from " + method;
-  } else if (encoding == NUCLEATE_ENCODING_BINARY && status != NUCLEATE_OK &&
-             status != NUCLEATE_ERROR_CANCELLED) {
-    nucleate::v1::ErrorDetail detail;
-    if (!detail.ParseFromArray(reply, static_cast<int>(reply_size))) {
-      broken = "failure reply from " + method + " is not an ErrorDetail";
+  } else if (encoding == NUCLEATE_ENCODING_JSON && reply != nullptr &&
+             !nucleate::IsValidUtf8(std::string_view(static_cast<const char*>(reply), reply_size))) {
+    broken = "JSON reply from " + method + " is not UTF-8";
+  } else if (encoding == NUCLEATE_ENCODING_BINARY && reply != nullptr) {
+    // Every reply must parse: a success or cancellation as the method's reply message (from the
+    // service in service.proto), a failure as an ErrorDetail.
+    const bool failed = status != NUCLEATE_OK && status != NUCLEATE_ERROR_CANCELLED;
+    const google::protobuf::Descriptor* type =
+        failed ? nucleate::v1::ErrorDetail::descriptor()
+               : google::protobuf::DescriptorPool::generated_pool()
+                     ->FindServiceByName("nucleate.v1.Nucleate")
+                     ->FindMethodByName(method)
+                     ->output_type();
+    std::unique_ptr<google::protobuf::Message> parsed(
+        google::protobuf::MessageFactory::generated_factory()->GetPrototype(type)->New());
+    if (!parsed->ParseFromArray(reply, static_cast<int>(reply_size))) {
+      broken = "reply from " + method + " (status " + std::to_string(status) +
+               ") does not parse as " + type->full_name();
     }
   }
   nucleate_free(reply);

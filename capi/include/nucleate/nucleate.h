@@ -16,7 +16,8 @@
  *
  * Errors: every call that can fail returns a nucleate_status. Codes are never renumbered; new ones
  * are only appended. No C++ exception crosses this boundary; the library never aborts, exits or
- * writes to stdout or stderr.
+ * writes to stdout or stderr. Every string in a reply is UTF-8: where a message quotes the
+ * caller's bytes that are not, each bad byte appears as U+FFFD.
  *
  * Stability: functions are never removed and their signatures never change; new behaviour arrives
  * as new functions. "Since" gives the library version that introduced each.
@@ -50,7 +51,7 @@ typedef int32_t nucleate_status;
 /* The encoding argument is neither NUCLEATE_ENCODING_BINARY nor NUCLEATE_ENCODING_JSON. */
 #define NUCLEATE_ERROR_BAD_ENCODING 2
 /* The request bytes do not parse as the method's request message (wrong bytes, wrong JSON types,
-   unknown JSON field). */
+   unknown JSON field, a string field that is not UTF-8). */
 #define NUCLEATE_ERROR_MALFORMED_REQUEST 3
 /* The request parses, but a field holds a value outside its domain; the message names the field. */
 #define NUCLEATE_ERROR_INVALID_ARGUMENT 4

@@ -9,6 +9,7 @@
 #include "core/model/bundle/bundle_messages.h"
 #include "core/model/bundle/model_bundle.h"
 #include "core/model/evaluate.h"
+#include "core/structure/validate.h"
 #include "core/train/train_config.h"
 #include "core/train/trainer.h"
 #include "methods/requested_model.h"
@@ -110,6 +111,8 @@ void HandleEvaluate(const v1::EvaluateRequest& request, v1::EvaluateReply* reply
     model::EvaluationInput in;
     try {
       in.cell = FromMessage(m.structure(), limits.structure);
+      // The network's neighbour search needs a sane cell: refuse what Check would report.
+      structure::ValidateCrystal(in.cell, limits.structure);
     } catch (const Error& e) {
       throw e.WithinField(field + ".structure");
     }

@@ -1,3 +1,4 @@
+#include "core/common/message_text.h"
 #include "core/model/bundle/bundle_file.h"
 
 #include "core/common/error.h"
@@ -25,6 +26,8 @@ std::string EncodeModelBundle(const ModelBundle& bundle, const BundleLimits& lim
   ValidateModelBundle(bundle, limits);
   v1::ModelBundle message;
   ToMessage(bundle, &message);
+  // Names and provenance come from the caller's configuration: a file must stay readable.
+  RepairStringFields(&message);
   std::string payload;
   if (!message.SerializeToString(&payload)) {
     throw LimitExceeded("tensors", "the bundle is too large for one file (protobuf's 2 GiB)");
@@ -45,7 +48,7 @@ ModelBundle DecodeModelBundle(const std::string& bytes, const std::string& sourc
   UnsealedFile unsealed = UnsealFile(bytes, kModelBundleMagic, kModelBundleFormatVersion,
                                      limits.max_file_bytes, source);
   v1::ModelBundle message;
-  if (!message.ParseFromString(unsealed.payload)) {
+  if (!ParseQuietly(unsealed.payload, &message)) {
     throw InvalidArgument(source,
                           "is truncated or damaged: its checksum is right but the model "
                           "bundle inside cannot be parsed");

@@ -1,3 +1,4 @@
+#include "core/common/message_text.h"
 #include "core/model/bundle/sealed_file.h"
 
 #include <algorithm>
@@ -70,7 +71,7 @@ UnsealedFile UnsealFile(const std::string& bytes, const std::string& expected_ma
   v1::SealedFile file;
   // Parsing bounds every length by the bytes present, so a damaged length cannot make it
   // allocate more than the input's size.
-  if (!file.ParseFromString(bytes)) {
+  if (!ParseQuietly(bytes, &file)) {
     if (!starts_like_ours) throw InvalidArgument(source, "is not a " + kind_of_file);
     throw InvalidArgument(
         source, "is truncated or damaged: the " + kind_of_file + " container cannot be parsed");

@@ -1,3 +1,4 @@
+#include "core/common/message_text.h"
 #include "core/train/data/load_dataset.h"
 
 #include <algorithm>
@@ -176,7 +177,7 @@ class Loader {
       throw Error(error.kind(), "structure_set_file", "'" + path + "': " + error.detail());
     }
     v1::StructureSet set;
-    if (!set.ParseFromString(bytes)) {
+    if (!ParseQuietly(bytes, &set)) {
       throw InvalidArgument("structure_set_file",
                             "'" + path + "' is not a binary nucleate.v1.StructureSet");
     }

@@ -53,6 +53,34 @@ TEST(MinimumImage, MatchesBruteForceOnSkewedCells) {
   RecordProperty("max_abs_difference_vs_brute_force", std::to_string(worst));
 }
 
+// Long thin cells: a 100,000 A axis beside 0.01 A axes (a fuzzer's Evaluate input had such a
+// cell, tests/fuzz/findings). The box bound alone allows about 10^13 offsets for two atoms half the
+// long axis apart; the sphere enumeration visits a handful, so this test finishing at all is part
+// of the check. The answer is exact by construction: in an orthogonal cell the minimum image takes
+// the nearest image along each axis independently.
+TEST(MinimumImage, LongThinCellsNeedOnlyAFewImages) {
+  const Eigen::Vector3d lengths(1e5, 0.01, 0.01);
+  const Eigen::Matrix3d orthogonal = lengths.asDiagonal();
+  // The same cell turned about an oblique axis and with its rows mixed by a unimodular matrix,
+  // so the search must reduce it first.
+  const Eigen::Matrix3d rotation =
+      Eigen::AngleAxisd(0.7, Eigen::Vector3d(1, 2, 3).normalized()).toRotationMatrix();
+  Eigen::Matrix3d mix;
+  mix << 1, 3, 0, 0, 1, 0, 2, 5, 1;  // det 1
+  const Eigen::Matrix3d skewed = mix * orthogonal * rotation.transpose();
+  const Eigen::Vector3d fi(0.0, 0.0, 0.0), fj(0.5, 0.3, 0.9);
+  // Nearest images: 0.5 of the long axis, 0.3 and 0.1 of the short ones.
+  const double expected = std::sqrt(std::pow(0.5 * 1e5, 2) + std::pow(0.3 * 0.01, 2) +
+                                    std::pow(0.1 * 0.01, 2));
+  EXPECT_NEAR(MinimumImage(orthogonal).Between(fi, fj).distance, expected, 1e-9);
+  // fj in the mixed basis: fractional coordinates transform with the inverse of `mix`.
+  const Eigen::Vector3d fj_skewed = mix.transpose().inverse() * fj;
+  const ImageVector got = MinimumImage(skewed).Between(fi, fj_skewed);
+  EXPECT_NEAR(got.distance, expected, 1e-9 * expected);
+  // Rounding in the rotated 1e5 A vector leaves about 1e-11 A.
+  EXPECT_NEAR(MinimumImage(skewed).ShortestLatticeVector().distance, 0.01, 1e-9);
+}
+
 TEST(MinimumImage, ShortestLatticeVectorMatchesBruteForce) {
   for (const Cell& cell : kSkewedCells) {
     const Eigen::Matrix3d lattice =
