@@ -13,6 +13,8 @@ packages=(
   libopenmpi-dev openmpi-bin
   # tests
   libgtest-dev libbenchmark-dev
+  # fuzzing (libFuzzer ships with clang; the sanitizer runtimes of gcc come with g++)
+  clang libclang-rt-14-dev
   # outside references used by the tests only (the product itself stays Python-free)
   python3 python3-numpy python3-spglib python3-ase python3-pymatgen
 )

@@ -22,22 +22,6 @@ namespace {
 
 namespace pb = google::protobuf;
 
-// Messages are one line, whatever the text they quote (protobuf's JSON errors span lines).
-std::string OneLine(const std::string& text) {
-  std::string out;
-  bool space = false;
-  for (char c : text) {
-    if (c == '\n' || c == '\r' || c == '\t') {
-      space = !out.empty();
-      continue;
-    }
-    if (space && c != ' ') out += ' ';
-    space = false;
-    out += c;
-  }
-  return out;
-}
-
 DispatchOutcome Fail(const char* method, int32_t encoding, const CallFailure& failure) {
   DispatchOutcome outcome;
   outcome.status = failure.status;
@@ -157,11 +141,13 @@ DispatchOutcome Dispatch(const char* method, const void* request, size_t request
   } catch (const Error& error) {
     return Fail(method, encoding,
                 CallFailure{StatusForErrorKind(error.kind()), error.field(),
-                        std::string(method) + ": " + error.what()});
+                        std::string(method) + ": " + error.message()});
   } catch (const std::bad_alloc&) {
     return Fail(method, encoding,
                 CallFailure{NUCLEATE_ERROR_OUT_OF_MEMORY, "",
-                        std::string(method ? method : "") + ": out of memory"});
+                        std::string(method ? method : "") +
+                                ": out of memory: an allocation failed; nothing of this call was "
+                                "kept (ask for less, or give the process more memory)"});
   } catch (const std::exception& error) {
     return Fail(method, encoding,
                 CallFailure{NUCLEATE_ERROR_INTERNAL, "",

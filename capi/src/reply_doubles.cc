@@ -170,7 +170,7 @@ extern "C" nucleate_status nucleate_reply_doubles(const char* method, const void
     text = failure.message;
   } catch (const nucleate::Error& error) {
     status = StatusForErrorKind(error.kind());
-    text = error.what();
+    text = error.message();
   } catch (const std::bad_alloc&) {
     return NUCLEATE_ERROR_OUT_OF_MEMORY;
   } catch (...) {

@@ -1,4 +1,3 @@
-#include "core/common/thread_count.h"
 #include "core/assess/assessment.h"
 
 #include <algorithm>
@@ -11,6 +10,7 @@
 #include "core/common/error.h"
 #include "core/common/parallel_for.h"
 #include "core/common/require.h"
+#include "core/common/thread_count.h"
 #include "core/match/dedup.h"
 #include "core/match/structure_matcher.h"
 #include "core/model/diffusion.h"

@@ -29,6 +29,9 @@ class Error : public std::runtime_error {
         detail_(std::move(detail)) {}
 
   ErrorKind kind() const { return kind_; }
+  // what() as a std::string, whole: what() is a C string, cut at the first NUL that quoted file
+  // content may hold.
+  std::string message() const { return field_.empty() ? detail_ : field_ + ": " + detail_; }
   const std::string& field() const { return field_; }
   const std::string& detail() const { return detail_; }
 

@@ -186,4 +186,10 @@ int AtomicNumber(std::string_view symbol) {
   return 0;
 }
 
+std::string Describe(int number) {
+  const Element* element = FindElement(number);
+  if (element == nullptr) return "atomic number " + std::to_string(number) + " (no element)";
+  return std::string(element->symbol) + " (element " + std::to_string(number) + ")";
+}
+
 }  // namespace nucleate::elements

@@ -1,6 +1,7 @@
 // The periodic table data nucleate uses. Each column names its published source in elements.cc.
 #pragma once
 
+#include <string>
 #include <string_view>
 #include <vector>
 
@@ -24,5 +25,8 @@ struct Element {
 const Element* FindElement(int number);
 // 0 when `symbol` is not an element symbol. Exact case ("Fe"), as written in CIF and XYZ files.
 int AtomicNumber(std::string_view symbol);
+
+// For messages: "Fe (element 26)", or "atomic number 119 (no element)" outside 1..118.
+std::string Describe(int number);
 
 }  // namespace nucleate::elements

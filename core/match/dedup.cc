@@ -1,4 +1,3 @@
-#include "core/common/thread_count.h"
 #include "core/match/dedup.h"
 
 #include <algorithm>
@@ -7,9 +6,10 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/common/parallel_for.h"
+#include "core/common/thread_count.h"
 #include "core/match/candidate_index.h"
 #include "core/match/fingerprint.h"
-#include "core/common/parallel_for.h"
 #include "core/match/prepared_crystal.h"
 #include "core/match/structure_matcher.h"
 

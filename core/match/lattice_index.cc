@@ -118,6 +118,7 @@ void LatticeIndex::Query(const Eigen::Matrix3d& mover, LatticeHits* out, int min
   // depend on the other vector, so each pair is judged once, when first needed, rather than once
   // per triple: per b, the c in slot 2 that pass with it and their angles; per a, the angle with
   // each c in slot 2, or NaN if the pair fails.
+  CheckMappingSearchSize(slot[0].size(), slot[1].size(), slot[2].size());
   const std::size_t n2 = slot[2].size();
   const double nan = std::numeric_limits<double>::quiet_NaN();
   // (position in slot 2, alpha): the runs of the b judged so far, b's run in with_b[b].

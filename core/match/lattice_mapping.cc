@@ -2,6 +2,9 @@
 
 #include <cmath>
 #include <limits>
+#include <string>
+
+#include "core/common/error.h"
 
 namespace nucleate::match {
 namespace {
@@ -49,6 +52,22 @@ bool MappingTest::Accepts(const CandidateBasis& v) const {
   return true;
 }
 
+void CheckMappingSearchSize(std::size_t n0, std::size_t n1, std::size_t n2) {
+  // A sane pair of cells leaves tens of candidates per row (about 10^5 triples at most, even for
+  // supercell searches); a cell with a vector far shorter than the others (0.01 A beside 100 A)
+  // leaves tens of thousands, and the triples, the pair tables and the mappings kept run into the
+  // billions.
+  const double a = static_cast<double>(n0), b = static_cast<double>(n1), c = static_cast<double>(n2);
+  if (a * b * c > kMaxMappingTriples || a * b > kMaxMappingPairs || a * c > kMaxMappingPairs ||
+      b * c > kMaxMappingPairs) {
+    throw LimitExceeded("lattice", "the cells are too anisotropic to compare: " +
+                                       std::to_string(n0) + " x " + std::to_string(n1) + " x " +
+                                       std::to_string(n2) +
+                                       " candidate cell vectors, above the limits of 1e8 "
+                                       "triples and 1e7 pairs (is a cell vector nearly zero?)");
+  }
+}
+
 double MappingSearchRadius(const Eigen::Matrix3d& target, double length_tolerance) {
   return target.rowwise().norm().maxCoeff() * (1 + length_tolerance);
 }
@@ -82,6 +101,7 @@ std::vector<LatticeMapping> FindLatticeMappings(const Eigen::Matrix3d& lattice,
     const double c = Cosine(x->cartesian, y->cartesian, x->length, y->length);
     return c > cos_lo[k] && c < cos_hi[k] && test.AngleFits(k, DegreesFromCosine(c));
   };
+  CheckMappingSearchSize(cand[0].size(), cand[1].size(), cand[2].size());
   std::vector<LatticeMapping> out;
   for (const LatticePoint* a : cand[0]) {
     for (const LatticePoint* b : cand[1]) {

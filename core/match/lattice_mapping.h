@@ -4,6 +4,7 @@
 #pragma once
 
 #include <cmath>
+#include <cstddef>
 #include <vector>
 
 #include <Eigen/Dense>
@@ -63,6 +64,13 @@ constexpr double kCosineSlack = 1e-9;
 // lo < c < hi: the window mapped through cos (decreasing), widened by kCosineSlack; ends beyond 0
 // or 180 degrees leave that side open. A cheap necessary test that spares most acos calls.
 void CosineWindow(double from_degrees, double to_degrees, double* lo, double* hi);
+
+// Searches for cells (FindLatticeMappings, LatticeIndex::Query) refuse, LimitExceeded on
+// "lattice", when more combinations of candidate cell vectors than these would have to be tried:
+// triples of rows, or pairs (tables of pair angles are kept).
+constexpr double kMaxMappingTriples = 1e8;
+constexpr double kMaxMappingPairs = 1e7;
+void CheckMappingSearchSize(std::size_t n0, std::size_t n1, std::size_t n2);
 
 // Every integer matrix M with |det M| = index whose rows v_k = M_k * lattice pass MappingTest
 // against the target rows t_k. Both handednesses are kept (det M = +-index), so a structure

@@ -5,6 +5,7 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/elements/elements.h"
 #include "core/model/denoiser.h"
 #include "core/model/diffusion.h"
 #include "core/model/graph_batch.h"
@@ -44,8 +45,9 @@ NoisyCell ToNoisyCell(const ModelBundle& b, const DiffusionProcess& process,
     }
     const int token = a.token_of(in.cell.numbers[i]);
     if (token < 0) {
-      throw InvalidArgument(field + ".cell.atomic_numbers[" + std::to_string(i) + "]",
-                            "element " + std::to_string(in.cell.numbers[i]) +
+      // The request names the cell's structure "structure" (EvaluateCell).
+      throw InvalidArgument(field + ".structure.atomic_numbers[" + std::to_string(i) + "]",
+                            elements::Describe(in.cell.numbers[i]) +
                                 " is not in the model's vocabulary");
     }
     c.tokens.push_back(token);

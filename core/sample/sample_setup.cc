@@ -7,6 +7,7 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/elements/elements.h"
 #include "core/random/random_stream.h"
 #include "core/symmetry/symmetry.h"
 
@@ -104,9 +105,11 @@ SampleSetup::SampleSetup(const model::ModelBundle& bundle, const std::vector<Rev
       if (t.formula.empty()) throw InvalidArgument("composition.formula", "is empty");
       long long per_unit = 0;
       for (std::size_t k = 0; k < t.formula.size(); ++k) {
-        Token(t.formula[k].first, Index("composition.formula", k));
+        // The formula is one string in the request: the message names the element.
+        Token(t.formula[k].first, "composition.formula");
         if (t.formula[k].second < 1) {
-          throw InvalidArgument(Index("composition.formula", k) + ".count", "must be >= 1");
+          throw InvalidArgument("composition.formula",
+                                elements::Describe(t.formula[k].first) + ": count must be >= 1");
         }
         per_unit += t.formula[k].second;
       }
@@ -206,7 +209,7 @@ SampleSetup::SampleSetup(const model::ModelBundle& bundle, const std::vector<Rev
 int SampleSetup::Token(int atomic_number, const std::string& field) const {
   const int token = bundle_.architecture.token_of(atomic_number);
   if (token < 0) {
-    throw InvalidArgument(field, "element " + std::to_string(atomic_number) +
+    throw InvalidArgument(field, elements::Describe(atomic_number) +
                                      " is not in the model's vocabulary (" +
                                      std::to_string(bundle_.architecture.elements.size()) +
                                      " elements)");

@@ -1,4 +1,3 @@
-#include "core/common/thread_count.h"
 #include "core/sample/sampler.h"
 
 #include <algorithm>
@@ -11,6 +10,7 @@
 #include <string>
 #include <thread>
 
+#include "core/common/thread_count.h"
 #include "core/model/diffusion.h"
 #include "core/sample/network_denoiser.h"
 #include "core/sample/reverse_levels.h"
@@ -104,8 +104,9 @@ SampleRun RunSamplingOn(const model::ModelBundle& bundle, const model::Diffusion
   const std::int64_t bytes = EstimateSamplingBytes(bundle.architecture, setup.max_atoms(), threads, job.count);
   if (bytes > job.limits.max_memory_bytes) {
     throw LimitExceeded("limits.max_memory_bytes",
-                        "the job needs about " + std::to_string(bytes >> 20) + " MiB; the limit is " +
-                            std::to_string(job.limits.max_memory_bytes >> 20) + " MiB");
+                        "the job needs about " + std::to_string(bytes) + " bytes (" +
+                            std::to_string(bytes >> 20) + " MiB); the limit is " +
+                            std::to_string(job.limits.max_memory_bytes) + " bytes");
   }
 
   // Each worker runs whole chains, one sample at a time, taking the next index as it finishes;

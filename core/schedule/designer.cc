@@ -6,6 +6,7 @@
 
 #include "core/common/error.h"
 #include "core/common/require.h"
+#include "core/common/shortest_number.h"
 #include "core/schedule/wrapped_normal.h"
 
 namespace nucleate::schedule {
@@ -37,6 +38,13 @@ void ValidateTargets(const DesignTargets& d, const ScheduleLimits& limits) {
   RequirePositiveFinite("cell_length_angstrom", d.cell_length_angstrom);
   if (d.resolution_angstrom / d.cell_length_angstrom < 1e-150) {
     throw InvalidArgument("resolution_angstrom", "too small relative to cell_length_angstrom");
+  }
+  // sigma_min = resolution / cell length: a resolution as coarse as the cell itself leaves
+  // nothing for the coordinate noise to resolve.
+  if (d.resolution_angstrom >= d.cell_length_angstrom) {
+    throw InvalidArgument("resolution_angstrom", "must be below cell_length_angstrom (" +
+                                                     FormatShortest(d.cell_length_angstrom) +
+                                                     " A)");
   }
 }
 

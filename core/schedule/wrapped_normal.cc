@@ -6,6 +6,7 @@
 #include <string>
 
 #include "core/common/error.h"
+#include "core/common/shortest_number.h"
 
 namespace nucleate::schedule {
 namespace {
@@ -25,7 +26,7 @@ constexpr double kFourierSigma = 0.2;
 void CheckSigma(double sigma) {
   if (!std::isfinite(sigma) || sigma < kMinSigma || sigma > kMaxSigma) {
     throw InvalidArgument("sigma",
-                          "must be a finite number in [1e-150, 100], got " + std::to_string(sigma));
+                          "must be a finite number in [1e-150, 100], got " + FormatShortest(sigma));
   }
 }
 

@@ -77,9 +77,16 @@ std::optional<CrystalDefect> FindCrystalDefect(const Crystal& crystal,
                                                        " is not in 1..118");
     }
   }
+  // Indexed like the flat frac_coords of a Structure message (and like lattice above): the
+  // caller finds the very number at fault.
   for (std::size_t k = 0; k < n; ++k) {
-    if (!crystal.frac[k].allFinite()) {
-      return Invalid(Indexed("frac_coords", k), "is not finite", true);
+    for (int j = 0; j < 3; ++j) {
+      if (!std::isfinite(crystal.frac[k][j])) {
+        return Invalid(Indexed("frac_coords", 3 * k + static_cast<std::size_t>(j)),
+                       std::string("is not finite (site ") + std::to_string(k) + ", " +
+                           "xyz"[j] + ")",
+                       true);
+      }
     }
   }
   return std::nullopt;

@@ -25,7 +25,7 @@ constexpr double kMinRelativeVolume = 1e-9;  // |det| / (|a| |b| |c|)
 //   LimitExceeded("lattice")          a cell vector longer than limits.max_cell_length
 //   InvalidArgument("lattice")        a zero-length vector or a degenerate cell (see above)
 //   InvalidArgument("atomic_numbers[k]")  Z outside 1..118
-//   InvalidArgument("frac_coords[k]")     a non-finite fractional coordinate
+//   InvalidArgument("frac_coords[3i+j]")  coordinate j of site i not finite (flat, as in messages)
 void ValidateCrystal(const Crystal& crystal, const StructureLimits& limits);
 
 // The first error ValidateCrystal would raise, returned instead of thrown, with whether it is a

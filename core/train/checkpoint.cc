@@ -1,7 +1,7 @@
-#include "core/common/message_text.h"
 #include "core/train/checkpoint.h"
 
 #include "core/common/error.h"
+#include "core/common/message_text.h"
 #include "core/model/bundle/bundle_file.h"
 #include "core/model/bundle/file_io.h"
 #include "core/model/bundle/sealed_file.h"

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstdint>
+#include <map>
 #include <string>
 #include <vector>
 
@@ -50,6 +51,10 @@ struct TrainSettings {
   OptimisationSettings optimisation;
   OutputSettings output;
   std::string yaml;  // the configuration text as given, kept in the bundle's provenance
+  // Where the configuration gave each data setting, for errors found only when the data are read:
+  // DataSource field ("directory") -> "<file>:<line>: <key path>" ("train.yaml:2: data.directory").
+  // Empty for settings built in code. Not a setting: it changes no result.
+  std::map<std::string, std::string> data_keys;
 };
 
 }  // namespace nucleate::train

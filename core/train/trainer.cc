@@ -1,4 +1,3 @@
-#include "core/common/thread_count.h"
 #include "core/train/trainer.h"
 
 #include <chrono>
@@ -9,8 +8,9 @@
 #include <sstream>
 
 #include "core/common/error.h"
-#include "core/common/sha256.h"
 #include "core/common/parallel_for.h"
+#include "core/common/sha256.h"
+#include "core/common/thread_count.h"
 #include "core/model/bundle/bundle_file.h"
 #include "core/model/denoiser.h"
 #include "core/model/diffusion.h"
@@ -19,6 +19,7 @@
 #include "core/train/checkpoint.h"
 #include "core/train/data/load_dataset.h"
 #include "core/train/loss.h"
+#include "core/train/train_config.h"
 #include "core/train/training_set.h"
 
 namespace nucleate::train {
@@ -267,7 +268,13 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
   const OptimisationSettings& o = s.optimisation;
   TrainResult result;
 
-  data::Dataset dataset = data::LoadDataset(s.data);
+  // Errors of the data name the configuration key that pointed at them, with its line.
+  data::Dataset dataset;
+  try {
+    dataset = data::LoadDataset(s.data);
+  } catch (const Error& error) {
+    throw AtConfigKey(error, s);
+  }
   result.data_report = dataset.report;
   say("data: " + std::to_string(dataset.report.structures_kept) + " structures kept, " +
       std::to_string(dataset.report.structures_skipped) + " skipped, " +
@@ -290,7 +297,7 @@ TrainResult Train(const TrainSettings& s, const TrainObserver& observer, const T
 
   const model::Denoiser net(set.architecture);
   const model::DiffusionProcess process(s.diffusion, set.architecture);
-  const int threads = ResolveThreadCount(o.threads, "options.threads");
+  const int threads = ResolveThreadCount(o.threads, "training.threads");
   Workspace workspace;
   workspace.caches.resize(threads);
   workspace.outputs.resize(threads);

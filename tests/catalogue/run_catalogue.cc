@@ -15,6 +15,7 @@
 #include <gtest/gtest.h>
 #include <yaml-cpp/yaml.h>
 
+#include <google/protobuf/struct.pb.h>
 #include <google/protobuf/util/json_util.h>
 
 #include "core/model/bundle/bundle_file.h"
@@ -39,9 +40,10 @@ struct Entry {
 };
 
 // The keys an entry may have; anything else is a typo the runner refuses.
-const std::set<std::string> kKeys = {"id",       "input",  "why",    "method", "encoding",
-                                     "request",  "name",   "content", "report", "yaml",
-                                     "model",    "status", "field",  "line",   "message"};
+const std::set<std::string> kKeys = {"id",      "input",  "why",     "method", "encoding",
+                                     "request", "name",   "content", "report", "error_at",
+                                     "yaml",    "model",  "status",  "field",  "line",
+                                     "message"};
 
 std::vector<Entry> LoadCatalogue() {
   std::vector<fs::path> files;
@@ -142,6 +144,43 @@ Outcome FromCall(const CallResult& r, int32_t encoding) {
   return out;
 }
 
+// The ErrorDetail at `path` ("entries[1].error") of a successful JSON reply: methods that go on
+// past a bad structure report it inside the reply.
+Outcome FromReply(const std::string& reply_json, const std::string& path) {
+  google::protobuf::Value node;
+  Outcome out;
+  if (!google::protobuf::util::JsonStringToMessage(reply_json, node.mutable_struct_value()).ok()) {
+    ADD_FAILURE() << "the reply is not a JSON object: " << reply_json;
+    return out;
+  }
+  std::stringstream steps(path);
+  std::string step;
+  while (std::getline(steps, step, '.')) {
+    const std::size_t bracket = step.find('[');
+    const std::string key = step.substr(0, bracket);
+    if (!node.has_struct_value() || !node.struct_value().fields().count(key)) {
+      ADD_FAILURE() << "the reply has no '" << key << "' on the way to " << path << ": " << reply_json;
+      return out;
+    }
+    google::protobuf::Value next = node.struct_value().fields().at(key);
+    if (bracket != std::string::npos) {
+      const int i = std::stoi(step.substr(bracket + 1));
+      if (!next.has_list_value() || i >= next.list_value().values_size()) {
+        ADD_FAILURE() << "the reply has no " << step << " on the way to " << path;
+        return out;
+      }
+      next = google::protobuf::Value(next.list_value().values(i));
+    }
+    node = next;
+  }
+  std::string detail_json;
+  google::protobuf::util::MessageToJsonString(node, &detail_json);
+  EXPECT_TRUE(google::protobuf::util::JsonStringToMessage(detail_json, &out.detail).ok())
+      << path << " is not an ErrorDetail: " << detail_json;
+  out.status = out.detail.status().empty() ? "NUCLEATE_OK" : out.detail.status();
+  return out;
+}
+
 Outcome RunEntry(const Entry& e) {
   const YAML::Node& n = e.node;
   const std::string input = Text(n, "input");
@@ -149,7 +188,12 @@ Outcome RunEntry(const Entry& e) {
     const bool binary = Text(n, "encoding") == "binary";
     const int32_t encoding = binary ? NUCLEATE_ENCODING_BINARY : NUCLEATE_ENCODING_JSON;
     const std::string request = binary ? FromHex(Text(n, "request")) : Text(n, "request");
-    return FromCall(Call(Text(n, "method"), request, encoding), encoding);
+    const CallResult r = Call(Text(n, "method"), request, encoding);
+    if (n["error_at"] && r.status == NUCLEATE_OK && !binary) {
+      return FromReply(r.reply, Text(n, "error_at"));
+    }
+    EXPECT_FALSE(n["error_at"] && binary) << "error_at needs a JSON request";
+    return FromCall(r, encoding);
   }
   if (input == "structure_file") {
     v1::CheckRequest request;

@@ -86,7 +86,7 @@ expect $? "sbatch --wait reports the failed task with a non-zero exit ($code)"
 state=$(scontrol show job "${job}_2" 2>&1)
 grep -q 'JobState=FAILED' <<<"$state" && grep -q 'ExitCode=[1-9][0-9]*:0' <<<"$state"
 expect $? "scontrol shows task 2 FAILED with its exit code: $(grep -o 'JobState=[A-Z]* .*\|ExitCode=[0-9:]*' <<<"$state" | head -n 2 | paste -sd ' ')"
-grep -q "element 26 is not in the model's vocabulary" logs/failing-2.out
+grep -q "Fe (element 26) is not in the model's vocabulary" logs/failing-2.out
 expect $? "task 2's log carries nucleate's message: $(tail -n 2 logs/failing-2.out)"
 for task in 0 1 3; do
   grep -qx done "failing/slice-$task/slice.txt" &&

@@ -6,7 +6,6 @@
 #include "core/assess/assessment.h"
 #include "core/assess/held_out_split.h"
 #include "core/common/error.h"
-#include "core/structure/validate.h"
 #include "core/train/train_config.h"
 #include "methods/match_methods.h"
 #include "methods/requested_model.h"
@@ -48,18 +47,14 @@ InputLimits StructureLimitsFromRequest(const v1::AssessRequest& r) {
 }
 
 // Every structure of a repeated field, each well formed, or the request is refused naming the
-// first bad one ("held_out[2].lattice").
+// first bad one ("held_out[2].structure.lattice").
 std::vector<structure::Crystal> ReadAll(
     const google::protobuf::RepeatedPtrField<v1::StructureInput>& inputs, const InputLimits& limits,
     const std::string& field) {
   std::vector<structure::Crystal> out;
   for (InputStructure& entry : ReadInputs(inputs, limits, field)) {
+    RequireValid(&entry, limits.structure);
     if (entry.error) throw *entry.error;
-    try {
-      structure::ValidateCrystal(*entry.crystal, limits.structure);
-    } catch (const Error& e) {
-      throw e.WithinField(entry.source);
-    }
     entry.crystal->label = entry.source;
     out.push_back(std::move(*entry.crystal));
   }

@@ -44,7 +44,8 @@ void HandleCheck(const v1::CheckRequest& request, v1::CheckReply* reply,
         CheckOne(*input.crystal, thresholds, limits, symprec, angle_tolerance, report);
         if (request.include_structures()) ToMessage(*input.crystal, report->mutable_structure());
       } catch (const Error& error) {
-        input.error = error;
+        // A limit the checks enforce (cell length, atom count) is named at the input.
+        input.error = error.WithinField(input.field);
       }
     }
     if (input.error) {

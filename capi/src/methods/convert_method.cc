@@ -27,6 +27,8 @@ void HandleConvert(const v1::ConvertRequest& request, v1::ConvertReply* reply,
                                       "or _JSON");
   }
   std::vector<InputStructure> read = ReadInputs(request.inputs(), limits);
+  // Writers and spglib assume a sane cell and real elements.
+  RequireValid(&read, limits.structure);
   std::string text;
   for (std::size_t i = 0; i < read.size(); ++i) {
     InputStructure& input = read[i];

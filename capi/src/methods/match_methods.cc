@@ -67,6 +67,7 @@ void HandleDedup(const v1::DedupRequest& request, v1::DedupReply* reply,
   }
   // Entries keep the request's order; unreadable ones carry their error and join no group.
   std::vector<InputStructure> read = ReadInputs(request.inputs(), limits);
+  RequireValid(&read, limits.structure);
   std::vector<structure::Crystal> crystals;
   std::vector<int> entry_of_crystal;
   int unreadable = 0;
@@ -86,8 +87,9 @@ void HandleDedup(const v1::DedupRequest& request, v1::DedupReply* reply,
   std::vector<structure::Crystal> references;
   std::vector<std::string> reference_sources;
   std::vector<v1::DedupEntry> unreadable_references;
-  Collect(ReadInputs(request.references(), limits, "references"), &references,
-          &reference_sources, &unreadable_references);
+  std::vector<InputStructure> read_references = ReadInputs(request.references(), limits, "references");
+  RequireValid(&read_references, limits.structure);
+  Collect(std::move(read_references), &references, &reference_sources, &unreadable_references);
   for (v1::DedupEntry& entry : unreadable_references) {
     *reply->add_unreadable_references() = std::move(entry);
   }

@@ -7,6 +7,8 @@
 #include <vector>
 
 #include "core/common/error.h"
+#include "core/common/thread_count.h"
+#include "core/structure/validate.h"
 #include "methods/candidate_groups.h"
 #include "methods/match_methods.h"
 #include "methods/sample_method.h"
@@ -26,8 +28,8 @@ void HandleMergeSamples(const v1::MergeSamplesRequest& merge, v1::SampleReply* r
   const v1::SampleRequest& request = merge.request();
   const match::MatchTolerances tolerances =
       WithinField("request", [&] { return TolerancesFromMessage(request.tolerances()); });
-  const int threads = request.has_threads() ? request.threads() : 0;
-  if (threads < 0) throw InvalidArgument("request.threads", "must be >= 0 (0 = every core)");
+  const int threads =
+      ResolveThreadCount(request.has_threads() ? request.threads() : 0, "request.threads");
   const std::uint64_t first = request.first_index();
   const std::uint64_t count = request.has_count() ? request.count() : 1;
   if (merge.parts_size() == 0) {
@@ -88,6 +90,7 @@ void HandleMergeSamples(const v1::MergeSamplesRequest& merge, v1::SampleReply* r
     if (from.report().has_error()) continue;
     try {
       finished.push_back(FromMessage(from.structure(), limits));
+      structure::ValidateCrystal(finished.back(), limits);
     } catch (const Error& e) {
       throw e.WithinField(CandidateField(origin.first, origin.second) + ".structure");
     }

@@ -3,6 +3,7 @@
 #include <cmath>
 #include <string>
 
+#include "core/common/shortest_number.h"
 #include "core/common/error.h"
 #include "core/model/bundle/schedule_messages.h"
 #include "core/schedule/designer.h"
@@ -180,14 +181,15 @@ void HandleWrappedNormal(const v1::WrappedNormalRequest& request, v1::WrappedNor
                          const CallContext&) {
   const double sigma = request.sigma();
   if (!std::isfinite(sigma) || sigma <= 0) {
-    throw InvalidArgument("sigma", "must be a finite number above 0, got " + std::to_string(sigma));
+    throw InvalidArgument("sigma", "must be a finite number above 0, got " + FormatShortest(sigma));
   }
   int images = 0;
   if (request.has_images()) {
     images = request.images();
-    if (images < 1 || images > kMaxImages) {
-      throw InvalidArgument("images", "must be between 1 and " + std::to_string(kMaxImages) +
-                                          ", got " + std::to_string(images));
+    if (images < 1) throw InvalidArgument("images", "must be at least 1, got " + std::to_string(images));
+    if (images > kMaxImages) {
+      throw LimitExceeded("images", std::to_string(images) + " is above the ceiling " +
+                                        std::to_string(kMaxImages));
     }
   } else {
     images = std::min(sc::WrappedNormalImagesFor(sigma), kMaxImages);

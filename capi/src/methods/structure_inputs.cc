@@ -6,6 +6,7 @@
 #include "codec.h"
 #include "core/structure/io/structure_file.h"
 #include "core/structure/lattice.h"
+#include "core/structure/validate.h"
 
 namespace nucleate::capi {
 namespace {
@@ -17,7 +18,8 @@ std::vector<InputStructure> ReadFile(const v1::StructureFile& file, const InputL
              LimitExceeded(name, std::to_string(file.content().size()) +
                                      " bytes is above limits.max_file_bytes = " +
                                      std::to_string(limits.max_file_bytes)),
-             {}}};
+             {},
+             name}};
   }
   const bool json_name = structure::io::HasExtension(name, ".json");
   if (file.format() == v1::STRUCTURE_FORMAT_JSON ||
@@ -26,11 +28,11 @@ std::vector<InputStructure> ReadFile(const v1::StructureFile& file, const InputL
     try {
       DecodeMessage(file.content().data(), file.content().size(), NUCLEATE_ENCODING_JSON, name,
                     &message);
-      return {{name, FromMessage(message, limits.structure), std::nullopt, {}}};
+      return {{name, FromMessage(message, limits.structure), std::nullopt, {}, name}};
     } catch (const CallFailure& failure) {
-      return {{name, std::nullopt, InvalidArgument(name, failure.message), {}}};
+      return {{name, std::nullopt, InvalidArgument(name, failure.message), {}, name}};
     } catch (const Error& error) {
-      return {{name, std::nullopt, error.WithinField(name), {}}};
+      return {{name, std::nullopt, error.WithinField(name), {}, name}};
     }
   }
   structure::io::FileFormat format = structure::io::FileFormat::kFromName;
@@ -42,13 +44,15 @@ std::vector<InputStructure> ReadFile(const v1::StructureFile& file, const InputL
       return {{name, std::nullopt,
                InvalidArgument(name, "format " + v1::StructureFormat_Name(file.format()) +
                                          " cannot be read"),
-               {}}};
+               {},
+               name}};
   }
   std::vector<InputStructure> out;
   for (structure::io::FileStructure& entry : structure::io::ReadStructureFile(
            name, std::string_view(file.content()), format, limits.structure)) {
+    std::string source = entry.source;
     out.push_back({std::move(entry.source), std::move(entry.crystal), std::move(entry.error),
-                   std::move(entry.warnings)});
+                   std::move(entry.warnings), std::move(source)});
   }
   return out;
 }
@@ -131,19 +135,32 @@ void ToMessage(const structure::Crystal& crystal, v1::Structure* m) {
 std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const InputLimits& limits,
                                       const std::string& where) {
   switch (input.source_case()) {
-    case v1::StructureInput::kStructure:
+    case v1::StructureInput::kStructure: {
+      const std::string field = where + ".structure";
       try {
         return {{input.structure().label().empty() ? where : input.structure().label(),
-                 FromMessage(input.structure(), limits.structure), std::nullopt, {}}};
+                 FromMessage(input.structure(), limits.structure), std::nullopt, {}, field}};
       } catch (const Error& error) {
-        return {{where, std::nullopt, error.WithinField(where + ".structure"), {}}};
+        return {{where, std::nullopt, error.WithinField(field), {}, field}};
       }
-    case v1::StructureInput::kFile:
-      return ReadFile(input.file(), limits);
+    }
+    case v1::StructureInput::kFile: {
+      std::vector<InputStructure> read = ReadFile(input.file(), limits);
+      for (InputStructure& entry : read) {
+        entry.field = entry.source;
+        // An error about the file as a whole (its name, size or format; no line to point at) is
+        // named at the request field that gave it, the file's name kept in the message.
+        if (entry.error && entry.error->field() == entry.source) {
+          entry.error = Error(entry.error->kind(), where + ".file",
+                              entry.source + ": " + entry.error->detail());
+        }
+      }
+      return read;
+    }
     case v1::StructureInput::SOURCE_NOT_SET:
       break;
   }
-  return {{where, std::nullopt, InvalidArgument(where, "set either structure or file"), {}}};
+  return {{where, std::nullopt, InvalidArgument(where, "set either structure or file"), {}, where}};
 }
 
 structure::Crystal ReadOneStructure(const v1::StructureInput& input, const InputLimits& limits,
@@ -153,8 +170,21 @@ structure::Crystal ReadOneStructure(const v1::StructureInput& input, const Input
     throw InvalidArgument(field, "holds " + std::to_string(read.size()) +
                                      " structures; exactly one is needed here");
   }
+  RequireValid(&read[0], limits.structure);
   if (read[0].error) throw *read[0].error;
   return std::move(*read[0].crystal);
+}
+
+void RequireValid(InputStructure* input, const structure::StructureLimits& limits) {
+  if (!input->crystal) return;
+  if (auto defect = structure::FindCrystalDefect(*input->crystal, limits)) {
+    input->error = defect->error.WithinField(input->field);
+    input->crystal.reset();
+  }
+}
+
+void RequireValid(std::vector<InputStructure>* inputs, const structure::StructureLimits& limits) {
+  for (InputStructure& input : *inputs) RequireValid(&input, limits);
 }
 
 std::vector<InputStructure> ReadInputs(

@@ -38,15 +38,24 @@ struct InputStructure {
   std::optional<structure::Crystal> crystal;
   std::optional<Error> error;
   std::vector<std::string> warnings;
+  // Where a defect of the crystal is reported: the request path of a structure given inline
+  // ("inputs[3].structure"), the file's source for one read from a file.
+  std::string field;
 };
+
+// Every method but Check refuses what Check would report as a defect (core's ValidateCrystal):
+// the input's crystal is replaced by its error, named inside input->field, e.g.
+// "inputs[3].structure.frac_coords[5]". Inputs already in error are left alone.
+void RequireValid(InputStructure* input, const structure::StructureLimits& limits);
+void RequireValid(std::vector<InputStructure>* inputs, const structure::StructureLimits& limits);
 
 // The structures of one input (a file may hold several); `where` names it in sources and errors
 // ("a", "inputs[3]"). A bad structure or file becomes an entry with its error.
 std::vector<InputStructure> ReadInput(const v1::StructureInput& input, const InputLimits& limits,
                                       const std::string& where);
 
-// The one structure an input must hold (a file with one block or frame); InvalidArgument naming
-// `field` otherwise, or the structure's own error.
+// The one structure an input must hold (a file with one block or frame), valid (RequireValid);
+// InvalidArgument naming `field` otherwise, or the structure's own error.
 structure::Crystal ReadOneStructure(const v1::StructureInput& input, const InputLimits& limits,
                                    const std::string& field);
 

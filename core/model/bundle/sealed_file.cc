@@ -1,9 +1,9 @@
-#include "core/common/message_text.h"
 #include "core/model/bundle/sealed_file.h"
 
 #include <algorithm>
 
 #include "core/common/error.h"
+#include "core/common/message_text.h"
 #include "core/common/sha256.h"
 #include "nucleate/v1/model.pb.h"
 

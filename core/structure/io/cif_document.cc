@@ -246,6 +246,11 @@ std::string NormaliseCifTag(std::string_view tag) {
 
 std::vector<CifBlockParse> ParseCifDocument(std::string_view text, const std::string& file_name,
                                             const CifDocumentOptions& options) {
+  // A UTF-8 byte-order mark at the very start is an editor's marker, not content (CIF 2.0 allows
+  // it there, from memory): read past it instead of refusing the file for "content before the
+  // first data_ block".
+  constexpr std::string_view kByteOrderMark = "\xEF\xBB\xBF";
+  if (text.substr(0, kByteOrderMark.size()) == kByteOrderMark) text.remove_prefix(kByteOrderMark.size());
   return DocumentParser(text, file_name, options).Run();
 }
 

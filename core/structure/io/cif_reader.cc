@@ -1,6 +1,9 @@
 #include "core/structure/io/cif_reader.h"
 
+#include <algorithm>
+#include <cctype>
 #include <cmath>
+#include <map>
 #include <utility>
 
 #include "core/elements/elements.h"
@@ -368,12 +371,25 @@ std::vector<CifBlockResult> ReadCif(std::string_view text, const std::string& fi
       {"_symmetry_int_tables_number", 1},
   };
   std::vector<CifBlockResult> results;
+  // Block names are unique in a file, compared without case (CIF 1.1 syntax, from memory): a
+  // second block of a name is refused, so that "<file>#<block>" names one structure.
+  std::map<std::string, int> first_line_of;
   for (CifBlockParse& parsed : ParseCifDocument(text, file_name, doc)) {
     CifBlockResult result;
     result.block_name = parsed.name;
     result.line = parsed.line;
+    std::string folded = parsed.name;
+    std::transform(folded.begin(), folded.end(), folded.begin(),
+                   [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
+    const auto [first, inserted] = first_line_of.emplace(folded, parsed.line);
     if (parsed.error) {
       result.error = std::move(parsed.error);
+    } else if (!inserted && !parsed.name.empty()) {
+      result.error = InvalidArgument(
+          file_name + ":" + std::to_string(parsed.line),
+          "data block '" + parsed.name + "' has the name of the block at line " +
+              std::to_string(first->second) +
+              " (block names must be unique in a file, whatever their case)");
     } else {
       try {
         ReadBlock(file_name, *parsed.block, options, result);

@@ -42,6 +42,9 @@ std::vector<FileStructure> ReadStructureFile(const std::string& name, std::strin
         out.push_back({name + "@" + std::to_string(frame.frame), std::move(frame.crystal),
                        std::move(frame.error), std::move(frame.warnings)});
       }
+      // A file without a single frame must not vanish from the caller's report (an empty CIF
+      // is refused by its reader for the same reason: "no data_ block").
+      if (out.empty()) throw InvalidArgument(name + ":1", "no frame: the file is empty or blank");
     }
   } catch (const Error& error) {
     // A problem with the file as a whole: one entry, so the caller's other files go on.

@@ -68,11 +68,4 @@ std::string FormatFixed(double value, int decimals) {
   return text;
 }
 
-std::string FormatShortest(double value) {
-  char buffer[64];
-  const auto [end, ec] = std::to_chars(buffer, buffer + sizeof(buffer), value);
-  if (ec != std::errc()) return "nan";
-  return std::string(buffer, end);
-}
-
 }  // namespace nucleate::structure::io

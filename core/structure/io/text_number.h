@@ -7,6 +7,8 @@
 #include <string>
 #include <string_view>
 
+#include "core/common/shortest_number.h"
+
 namespace nucleate::structure::io {
 
 // A plain decimal number ("-1.5", ".5", "5.", "1e-3", "+2"): the whole text must be the number.
@@ -22,7 +24,7 @@ std::optional<double> ParseCifNumber(std::string_view text);
 // so that a value that rounds to zero does not carry a stray sign.
 std::string FormatFixed(double value, int decimals);
 
-// The shortest text that reads back to exactly the same double.
-std::string FormatShortest(double value);
+// The shortest text that reads back to exactly the same double (core/common/shortest_number.h).
+using nucleate::FormatShortest;
 
 }  // namespace nucleate::structure::io

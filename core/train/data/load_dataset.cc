@@ -1,4 +1,3 @@
-#include "core/common/message_text.h"
 #include "core/train/data/load_dataset.h"
 
 #include <algorithm>
@@ -12,6 +11,7 @@
 #include <utility>
 
 #include "core/common/error.h"
+#include "core/common/message_text.h"
 #include "core/structure/io/structure_file.h"
 #include "core/structure/io/text_file.h"
 #include "core/structure/io/text_number.h"

@@ -126,7 +126,7 @@ TEST(Validity, DefectsBecomeProblemsAndLimitsThrow) {
   EXPECT_FALSE(r.valid);
   ASSERT_EQ(r.problems.size(), 1u);
   EXPECT_EQ(r.problems[0].code, ProblemCode::kNonFinite);
-  EXPECT_NE(r.problems[0].message.find("frac_coords[4]"), std::string::npos);
+  EXPECT_NE(r.problems[0].message.find("frac_coords[14]"), std::string::npos);  // 3 * 4 + 2
   EXPECT_TRUE(std::isnan(r.density));
   c = kNaCl;
   c.numbers[1] = 0;

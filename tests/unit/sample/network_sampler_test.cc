@@ -135,7 +135,9 @@ TEST(NetworkSampling, BadRequestsNameTheField) {
   const model::ModelBundle bundle = RandomNetwork();
   SampleJob job = NaClJob(0, 1, 1);
   job.composition.formula = {{11, 1}, {26, 1}};
-  EXPECT_EQ(ErrorOf(bundle, job).field(), "composition.formula[1]");
+  // The formula is one string in a request: the field is the string, the message names Fe.
+  EXPECT_EQ(ErrorOf(bundle, job).field(), "composition.formula");
+  EXPECT_NE(std::string(ErrorOf(bundle, job).what()).find("Fe (element 26)"), std::string::npos);
   job = NaClJob(0, 1, 1);
   job.task = TaskKind::kDeNovo;
   EXPECT_EQ(ErrorOf(bundle, job).field(), "task") << "a composition-given model cannot";

@@ -216,7 +216,7 @@ TEST_F(TrainerTest, EvaluateOnATrainedModel) {
     model::EvaluateModel(bundle, {in, foreign});
     FAIL() << "evaluated an element the model never saw";
   } catch (const Error& e) {
-    EXPECT_NE(std::string(e.what()).find("cells[1].cell.atomic_numbers[3]"), std::string::npos)
+    EXPECT_NE(std::string(e.what()).find("cells[1].structure.atomic_numbers[3]"), std::string::npos)
         << e.what();
   }
   model::EvaluationInput late = in;
