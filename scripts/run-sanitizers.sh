@@ -11,7 +11,7 @@
 # and reference (the command-line tool and the outside cross-checks drive the same library code
 # the other labels reach, at several times the run time), the Fortran module (LeakSanitizer
 # reports allocations of deferred-length strings in integrations/fortran/nucleate.F90 that are
-# not yet resolved; see the issue tracker) and the benchmarks (not tests). LeakSanitizer
+# not yet analysed: they may be the test programs' own arrays held at exit) and the benchmarks (not tests). LeakSanitizer
 # suppressions, each with its reason: tests/sanitizers/lsan.supp. JOBS sets the parallel build
 # jobs (default: all cores).
 set -euo pipefail
