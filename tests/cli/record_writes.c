@@ -32,40 +32,37 @@ static void record(const char* what, const char* path, const char* second) {
 
 static int writes(int flags) { return (flags & (O_WRONLY | O_RDWR | O_CREAT | O_TRUNC)) != 0; }
 
+/* The mode open and openat take only when they may create a file; `flags` is the last named
+   argument of all three. */
+#define CREATION_MODE(flags, mode)              \
+  do {                                          \
+    if ((flags) & (O_CREAT | O_TMPFILE)) {      \
+      va_list args;                             \
+      va_start(args, flags);                    \
+      (mode) = va_arg(args, mode_t);            \
+      va_end(args);                             \
+    }                                           \
+  } while (0)
+
 #define NEXT(name) ((__typeof__(&name))dlsym(RTLD_NEXT, #name))
 
 int open(const char* path, int flags, ...) {
   mode_t mode = 0;
-  if (flags & (O_CREAT | O_TMPFILE)) {
-    va_list args;
-    va_start(args, flags);
-    mode = va_arg(args, mode_t);
-    va_end(args);
-  }
+  CREATION_MODE(flags, mode);
   if (writes(flags)) record("open", path, NULL);
   return NEXT(open)(path, flags, mode);
 }
 
 int open64(const char* path, int flags, ...) {
   mode_t mode = 0;
-  if (flags & (O_CREAT | O_TMPFILE)) {
-    va_list args;
-    va_start(args, flags);
-    mode = va_arg(args, mode_t);
-    va_end(args);
-  }
+  CREATION_MODE(flags, mode);
   if (writes(flags)) record("open", path, NULL);
   return NEXT(open64)(path, flags, mode);
 }
 
 int openat(int dir, const char* path, int flags, ...) {
   mode_t mode = 0;
-  if (flags & (O_CREAT | O_TMPFILE)) {
-    va_list args;
-    va_start(args, flags);
-    mode = va_arg(args, mode_t);
-    va_end(args);
-  }
+  CREATION_MODE(flags, mode);
   if (writes(flags)) record("openat", path, NULL);
   return NEXT(openat)(dir, path, flags, mode);
 }

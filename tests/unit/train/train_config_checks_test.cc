@@ -10,27 +10,13 @@
 #include "core/common/error.h"
 #include "core/train/train_config.h"
 #include "core/train/trainer.h"
+#include "tests/unit/train/config_test_support.h"
 
 namespace nucleate::train {
 namespace {
 
-// Data on line 2, output on line 4: added sections start on line 5.
-const char* kMinimal = R"(data:
-  directory: structures
-output:
-  model: out/model.nucleate
-)";
-
-// The error ReadTrainConfig throws for `yaml`; a default (kInternal, no field) when it throws none,
-// which every expectation below then fails on.
-Error ErrorOf(const std::string& yaml) {
-  try {
-    ReadTrainConfig(yaml, "/runs/a", "train.yaml");
-  } catch (const Error& e) {
-    return e;
-  }
-  return Error(ErrorKind::kInternal, "", "no error");
-}
+using testing::ErrorOf;
+using testing::kMinimal;
 
 bool Mentions(const Error& e, const std::string& words) {
   return std::string(e.what()).find(words) != std::string::npos;

@@ -3,24 +3,13 @@
 
 #include "core/common/error.h"
 #include "core/train/train_config.h"
+#include "tests/unit/train/config_test_support.h"
 
 namespace nucleate::train {
 namespace {
 
-const char* kMinimal = R"(data:
-  directory: structures
-output:
-  model: out/model.nucleate
-)";
-
-std::string ErrorOf(const std::string& yaml) {
-  try {
-    ReadTrainConfig(yaml, "/runs/a", "train.yaml");
-  } catch (const Error& e) {
-    return e.what();
-  }
-  return "";
-}
+using testing::kMinimal;
+using testing::MessageOf;
 
 TEST(TrainConfig, MinimalFileTakesDefaultsAndResolvesPaths) {
   const TrainSettings s = ReadTrainConfig(kMinimal, "/runs/a", "train.yaml");
@@ -69,36 +58,36 @@ output: {model: m.nucleate, checkpoint: c.ckpt, resume: true}
 }
 
 TEST(TrainConfig, UnknownKeyIsNamedWithItsLine) {
-  const std::string e = ErrorOf(std::string(kMinimal) + "training:\n  batch_sise: 12\n");
+  const std::string e = MessageOf(std::string(kMinimal) + "training:\n  batch_sise: 12\n");
   EXPECT_NE(e.find("train.yaml:6: training.batch_sise"), std::string::npos) << e;
   EXPECT_NE(e.find("unknown key"), std::string::npos) << e;
 }
 
 TEST(TrainConfig, UnknownSectionIsNamed) {
-  const std::string e = ErrorOf(std::string(kMinimal) + "sampling: {steps: 3}\n");
+  const std::string e = MessageOf(std::string(kMinimal) + "sampling: {steps: 3}\n");
   EXPECT_NE(e.find("sampling"), std::string::npos) << e;
   EXPECT_NE(e.find("unknown key"), std::string::npos) << e;
 }
 
 TEST(TrainConfig, WrongTypeAndRangeAreNamed) {
-  std::string e = ErrorOf(std::string(kMinimal) + "model:\n  hidden: wide\n");
+  std::string e = MessageOf(std::string(kMinimal) + "model:\n  hidden: wide\n");
   EXPECT_NE(e.find("model.hidden"), std::string::npos) << e;
   EXPECT_NE(e.find("'wide'"), std::string::npos) << e;
-  e = ErrorOf(std::string(kMinimal) + "training:\n  batch_size: 0\n");
+  e = MessageOf(std::string(kMinimal) + "training:\n  batch_size: 0\n");
   EXPECT_NE(e.find("training.batch_size"), std::string::npos) << e;
-  e = ErrorOf(std::string(kMinimal) + "model:\n  conditions: [colour]\n");
+  e = MessageOf(std::string(kMinimal) + "model:\n  conditions: [colour]\n");
   EXPECT_NE(e.find("unknown condition 'colour'"), std::string::npos) << e;
-  e = ErrorOf(std::string(kMinimal) + "split: {validation_fraction: 0.6, test_fraction: 0.5}\n");
+  e = MessageOf(std::string(kMinimal) + "split: {validation_fraction: 0.6, test_fraction: 0.5}\n");
   EXPECT_NE(e.find("split.test_fraction"), std::string::npos) << e;
 }
 
 TEST(TrainConfig, MissingSectionsAndBadYaml) {
-  EXPECT_NE(ErrorOf("output: {model: m}\n").find("data"), std::string::npos);
-  EXPECT_NE(ErrorOf("data: {directory: d}\n").find("output"), std::string::npos);
-  EXPECT_NE(ErrorOf("data: {directory: d, structure_set: s}\noutput: {model: m}\n")
+  EXPECT_NE(MessageOf("output: {model: m}\n").find("data"), std::string::npos);
+  EXPECT_NE(MessageOf("data: {directory: d}\n").find("output"), std::string::npos);
+  EXPECT_NE(MessageOf("data: {directory: d, structure_set: s}\noutput: {model: m}\n")
                 .find("exactly one"),
             std::string::npos);
-  EXPECT_NE(ErrorOf("data: [\n").find("not valid YAML"), std::string::npos);
+  EXPECT_NE(MessageOf("data: [\n").find("not valid YAML"), std::string::npos);
 }
 
 }  // namespace
