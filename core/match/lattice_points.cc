@@ -36,16 +36,20 @@ void LatticePointsWithin(const Eigen::Matrix3d& lattice, double radius,
                          std::vector<LatticePoint>* out) {
   const double r = radius * (1 + kRadiusSlack);
   const Eigen::Vector3d recip = structure::ReciprocalLattice(lattice).rowwise().norm();
-  int bound[3];
+  // The count is judged in double before any bound becomes an int: a bound beyond int's range
+  // would make the conversion undefined.
+  double extent[3];
   double count = 1;
   for (int k = 0; k < 3; ++k) {
-    bound[k] = static_cast<int>(std::floor(r * recip[k]));
-    count *= 2.0 * bound[k] + 1;
+    extent[k] = std::floor(r * recip[k]);
+    count *= 2.0 * extent[k] + 1;
   }
-  if (count > static_cast<double>(kMaxLatticePoints)) {
+  if (!(count <= static_cast<double>(kMaxLatticePoints))) {
     throw LimitExceeded("lattice", "lattice-vector search would visit more than " +
                                        std::to_string(kMaxLatticePoints) + " points");
   }
+  int bound[3];
+  for (int k = 0; k < 3; ++k) bound[k] = static_cast<int>(extent[k]);
   std::vector<LatticePoint>& points = *out;
   points.clear();
   for (int i = -bound[0]; i <= bound[0]; ++i) {

@@ -241,7 +241,8 @@ void FrameReader::Atom(std::string_view text, int line) {
     }
   } else {
     const std::optional<double> z = ParseDecimal(words[z_->offset]);
-    if (!z || *z != std::floor(*z) || !elements::FindElement(static_cast<int>(*z))) {
+    // The range first: converting a double outside int's range is undefined behaviour.
+    if (!z || *z != std::floor(*z) || *z < 1 || *z > elements::kMaxAtomicNumber) {
       throw Fail(line, ErrorKind::kInvalidArgument,
                  "Z '" + std::string(words[z_->offset]) + "' is not an atomic number 1..118");
     }
