@@ -5,17 +5,13 @@
 
 #include "core/random/random_stream.h"
 #include "core/schedule/wrapped_normal.h"
+#include "core/structure/lattice.h"
 
 namespace nucleate::train {
 namespace {
 
 using random::Purpose;
 using random::RandomStream;
-
-double Wrap(double x) {
-  double w = x - std::floor(x);
-  return w >= 1.0 ? 0.0 : w;  // floor rounding can leave exactly 1 for tiny negative x
-}
 
 void DropConditions(const ConditionDropout& dropout, RandomStream* stream,
                     model::CellConditions* k) {
@@ -60,7 +56,7 @@ NoisedCell NoiseCell(const CleanCell& cell, const model::DiffusionProcess& proce
   for (int i = 0; i < n; ++i) {
     for (int k = 0; k < 3; ++k) {
       const double displacement = sigma * coordinates.Normal();
-      out.input.frac[i][k] = Wrap(cell.frac[i][k] + displacement);
+      out.input.frac[i][k] = structure::WrapFraction(cell.frac[i][k] + displacement);
       out.coordinate_target(i, k) =
           schedule::WrappedNormalScore(displacement, sigma, images) / scale;
     }
@@ -100,6 +96,25 @@ NoisedCell NoiseCell(const CleanCell& cell, const model::DiffusionProcess& proce
   RandomStream drop(seed, item, step, Purpose::kConditionDropout);
   DropConditions(dropout, &drop, &out.input.conditions);
   return out;
+}
+
+BatchTargets<float> StackTargets(const std::vector<NoisedCell>& noised) {
+  int atoms = 0;
+  for (const NoisedCell& n : noised) atoms += static_cast<int>(n.coordinate_target.rows());
+  BatchTargets<float> targets;
+  targets.coordinate_score.resize(atoms, 3);
+  targets.lattice_noise.resize(static_cast<int>(noised.size()), 6);
+  targets.species.reserve(static_cast<std::size_t>(atoms));
+  int atom = 0;
+  for (std::size_t c = 0; c < noised.size(); ++c) {
+    const NoisedCell& n = noised[c];
+    for (int i = 0; i < n.coordinate_target.rows(); ++i, ++atom) {
+      for (int k = 0; k < 3; ++k) targets.coordinate_score(atom, k) = float(n.coordinate_target(i, k));
+      targets.species.push_back(n.species_target[i]);
+    }
+    for (int k = 0; k < 6; ++k) targets.lattice_noise(static_cast<int>(c), k) = float(n.lattice_target[k]);
+  }
+  return targets;
 }
 
 }  // namespace nucleate::train

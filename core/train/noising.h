@@ -13,6 +13,7 @@
 #include "core/model/diffusion.h"
 #include "core/model/graph_batch.h"
 #include "core/model/lattice_features.h"
+#include "core/train/loss.h"
 
 namespace nucleate::train {
 
@@ -44,5 +45,9 @@ NoisedCell NoiseCell(const CleanCell& cell, const model::DiffusionProcess& proce
                      const model::LatticeStatistics& statistics, const model::Architecture& arch,
                      const ConditionDropout& dropout, std::uint32_t seed, std::uint32_t item,
                      std::uint32_t step, long long fixed_t = 0);
+
+// The loss targets of `noised`, stacked in order as BuildGraphBatch stacks their inputs: atoms
+// cell after cell, one lattice row per cell.
+BatchTargets<float> StackTargets(const std::vector<NoisedCell>& noised);
 
 }  // namespace nucleate::train

@@ -98,17 +98,7 @@ MicroBatch Prepare(const Run& run, const std::vector<CleanCell>& pool,
   }
   MicroBatch m;
   m.batch = model::BuildGraphBatch<float>(run.set.architecture, inputs);
-  m.targets.coordinate_score.resize(m.batch.atoms(), 3);
-  m.targets.lattice_noise.resize(m.batch.cells, 6);
-  int atom = 0;
-  for (std::size_t c = 0; c < noised.size(); ++c) {
-    const NoisedCell& n = noised[c];
-    for (int i = 0; i < n.coordinate_target.rows(); ++i, ++atom) {
-      for (int k = 0; k < 3; ++k) m.targets.coordinate_score(atom, k) = float(n.coordinate_target(i, k));
-      m.targets.species.push_back(n.species_target[i]);
-    }
-    for (int k = 0; k < 6; ++k) m.targets.lattice_noise(c, k) = float(n.lattice_target[k]);
-  }
+  m.targets = StackTargets(noised);
   return m;
 }
 

@@ -7,29 +7,18 @@
 #include "core/common/error.h"
 #include "core/model/diffusion.h"
 #include "core/random/random_stream.h"
+#include "core/structure/lattice.h"
 
 namespace nucleate::bench {
 namespace {
 
 // Seed of the invented cells and of their noise draws; any fixed value serves.
 constexpr std::uint32_t kSeed = 20261202;
-constexpr double kPi = 3.141592653589793;
 
 // Uniform on [0, 1) from the top 53 bits: std::uniform_real_distribution is not pinned by the
 // standard, this is, so the cells are the same with any standard library.
 double Uniform(std::mt19937_64* rng) { return static_cast<double>((*rng)() >> 11) * 0x1.0p-53; }
 int Below(std::mt19937_64* rng, int n) { return static_cast<int>((*rng)() % static_cast<std::uint64_t>(n)); }
-
-// Rows a, b, c from lengths and angles (degrees), a along x, b in the xy plane.
-Eigen::Matrix3d LatticeFromParameters(double a, double b, double c, double alpha, double beta,
-                                      double gamma) {
-  const double ca = std::cos(alpha * kPi / 180), cb = std::cos(beta * kPi / 180);
-  const double cg = std::cos(gamma * kPi / 180), sg = std::sin(gamma * kPi / 180);
-  const double cx = c * cb, cy = c * (ca - cb * cg) / sg;
-  Eigen::Matrix3d m;
-  m << a, 0, 0, b * cg, b * sg, 0, cx, cy, std::sqrt(c * c - cx * cx - cy * cy);
-  return m;
-}
 
 // An invented 20-atom cell: two or three elements of the vocabulary in random proportions,
 // random positions, a cell of 11 to 19 cubic angstrom per atom with angles of 80 to 100 degrees.
@@ -61,9 +50,14 @@ train::CleanCell InventCell(const model::Architecture& arch,
   const double edge = std::cbrt(kAtomsPerCell * (11 + 8 * Uniform(rng)));
   const auto length = [&] { return edge * (0.85 + 0.3 * Uniform(rng)); };
   const auto angle = [&] { return 80 + 20 * Uniform(rng); };
-  const double a = length(), b = length(), c = length();
-  const double alpha = angle(), beta = angle(), gamma = angle();
-  const Eigen::Matrix3d lattice = LatticeFromParameters(a, b, c, alpha, beta, gamma);
+  structure::LatticeParameters parameters;
+  parameters.a = length();
+  parameters.b = length();
+  parameters.c = length();
+  parameters.alpha = angle();
+  parameters.beta = angle();
+  parameters.gamma = angle();
+  const Eigen::Matrix3d lattice = structure::MatrixFromParameters(parameters);
   cell.features = statistics.Standardise(model::LatticeToFeatures(lattice, kAtomsPerCell));
   if (arch.condition_crystal_system) cell.conditions.crystal_system = 1 + index % 7;
   if (arch.condition_space_group) cell.conditions.space_group = 1 + (7 * index) % 230;
@@ -74,30 +68,16 @@ train::CleanCell InventCell(const model::Architecture& arch,
   return cell;
 }
 
-// The network's input and the loss targets for noised[begin, end), laid out as the trainer does
-// (core/train/trainer.cc, Prepare).
+// The network's input and the loss targets for noised[begin, end), laid out as the trainer lays
+// out a micro-batch (core/train/trainer.cc, Prepare).
 void Layout(const model::Architecture& arch, const std::vector<train::NoisedCell>& noised,
             std::size_t begin, std::size_t end, model::GraphBatch<float>* batch,
             train::BatchTargets<float>* targets) {
+  const std::vector<train::NoisedCell> part(noised.begin() + begin, noised.begin() + end);
   std::vector<model::NoisyCell> inputs;
-  for (std::size_t c = begin; c < end; ++c) inputs.push_back(noised[c].input);
+  for (const train::NoisedCell& n : part) inputs.push_back(n.input);
   *batch = model::BuildGraphBatch<float>(arch, inputs);
-  targets->coordinate_score.resize(batch->atoms(), 3);
-  targets->lattice_noise.resize(batch->cells, 6);
-  targets->species.clear();
-  int atom = 0;
-  for (std::size_t c = begin; c < end; ++c) {
-    const train::NoisedCell& n = noised[c];
-    for (int i = 0; i < n.coordinate_target.rows(); ++i, ++atom) {
-      for (int k = 0; k < 3; ++k) {
-        targets->coordinate_score(atom, k) = static_cast<float>(n.coordinate_target(i, k));
-      }
-      targets->species.push_back(n.species_target[i]);
-    }
-    for (int k = 0; k < 6; ++k) {
-      targets->lattice_noise(static_cast<int>(c - begin), k) = static_cast<float>(n.lattice_target[k]);
-    }
-  }
+  *targets = train::StackTargets(part);
 }
 
 // The coordinate draws NoiseCell made for `clean`, replayed from the same Philox stream (same key,
@@ -110,10 +90,7 @@ void ReplayCoordinateNoise(const train::CleanCell& clean, const train::NoisedCel
   for (std::size_t i = 0; i < clean.frac.size(); ++i) {
     for (int k = 0; k < 3; ++k) {
       const double displacement = sigma * stream.Normal();
-      const double x = clean.frac[i][k] + displacement;
-      double wrapped = x - std::floor(x);
-      if (wrapped >= 1.0) wrapped = 0.0;
-      if (wrapped != noised.input.frac[i][k]) {
+      if (structure::WrapFraction(clean.frac[i][k] + displacement) != noised.input.frac[i][k]) {
         throw Internal("cells[" + std::to_string(item) + "].frac[" + std::to_string(i) +
                        "]: the replayed coordinate noise does not reproduce train::NoiseCell's");
       }
