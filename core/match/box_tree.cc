@@ -50,15 +50,34 @@ void BoxTree::Insert(int id, const Coordinates& x) {
   if (buffer_.size() < kBuffer) return;
   Tree carry;
   carry.points.swap(buffer_);
-  std::size_t k = 0;
-  for (; k < trees_.size() && !trees_[k].points.empty(); ++k) {
-    carry.points.insert(carry.points.end(), trees_[k].points.begin(), trees_[k].points.end());
-    trees_[k] = Tree();
+  while (!trees_.empty() && trees_.back().points.size() <= carry.points.size()) {
+    carry.points.insert(carry.points.end(), trees_.back().points.begin(),
+                        trees_.back().points.end());
+    trees_.pop_back();
   }
-  if (k == trees_.size()) trees_.emplace_back();
+  Store(std::move(carry));
+}
+
+void BoxTree::Compact() {
+  if (buffer_.empty() && trees_.size() <= 2) return;
+  Tree carry;
+  carry.points.swap(buffer_);
+  while (trees_.size() > 1) {
+    carry.points.insert(carry.points.end(), trees_.back().points.begin(),
+                        trees_.back().points.end());
+    trees_.pop_back();
+  }
+  if (!trees_.empty() && carry.points.size() * 4 > trees_[0].points.size()) {
+    carry.points.insert(carry.points.end(), trees_[0].points.begin(), trees_[0].points.end());
+    trees_.pop_back();
+  }
+  if (!carry.points.empty()) Store(std::move(carry));
+}
+
+void BoxTree::Store(Tree carry) {
   carry.boxes.resize(NodeCount(carry.points.size()));
   Build(&carry, 0, 0, carry.points.size());
-  trees_[k] = std::move(carry);
+  trees_.push_back(std::move(carry));
 }
 
 void BoxTree::Build(Tree* tree, std::size_t node, std::size_t begin, std::size_t end) const {
@@ -108,9 +127,7 @@ void BoxTree::Query(const Coordinates& centre, const Coordinates& half,
   for (const Point& p : buffer_) {
     if (Inside(p.x, lo, hi)) out->push_back(p.id);
   }
-  for (const Tree& tree : trees_) {
-    if (!tree.points.empty()) Search(tree, 0, 0, tree.points.size(), lo, hi, out);
-  }
+  for (const Tree& tree : trees_) Search(tree, 0, 0, tree.points.size(), lo, hi, out);
 }
 
 }  // namespace nucleate::match

@@ -3,9 +3,13 @@
 // store (lattice_index.h). A grid would visit up to 2^6 cells per query and scan every point in
 // them, mostly outside the box; here empty regions are skipped by k-d tree splits.
 //
-// Inserts use the logarithmic method: a small unsorted buffer plus static k-d trees of sizes
-// kBuffer * 2^k; a full buffer is merged with the trees of equal size into one new tree, so each
-// point is rebuilt O(log n) times in all.
+// Inserts use the logarithmic method: a small unsorted buffer plus static k-d trees, largest
+// first; a full buffer is merged with the smaller trees no larger than itself into one new tree,
+// so each point is rebuilt O(log n) times in all and about log2(n / kBuffer) trees stand. Every
+// query searches each of them, so a caller that inserts in batches and then queries many times
+// (dedup: a chunk's representatives, then the next chunk's queries) calls Compact between the two,
+// which leaves at most two trees: the largest and one holding everything newer (rebuilt only while
+// it stays under a quarter of the largest, else merged into it).
 //
 // Each tree node keeps the bounding box of its points, and most queries find nothing: a node's
 // box, tested in all six dimensions at once, prunes such a query near the root, where the split
@@ -29,6 +33,10 @@ class BoxTree {
   // Not thread-safe against concurrent queries.
   void Insert(int id, const Coordinates& x);
 
+  // Rebuilds the stored points into at most two trees (see above): faster queries, same results.
+  // Not thread-safe against concurrent queries.
+  void Compact();
+
   // Appends the id of every point strictly inside the box centre +- half (unordered; an id
   // inserted once is reported once). Read-only: safe from many threads while no Insert runs.
   void Query(const Coordinates& centre, const Coordinates& half, std::vector<int>* out) const;
@@ -50,12 +58,14 @@ class BoxTree {
     std::vector<Box> boxes;  // per node, indexed as above
   };
   void Build(Tree* tree, std::size_t node, std::size_t begin, std::size_t end) const;
+  // Builds `carry` (points only) into a tree and stores it after the larger ones.
+  void Store(Tree carry);
   static void Search(const Tree& tree, std::size_t node, std::size_t begin, std::size_t end,
                      const Coordinates& lo, const Coordinates& hi, std::vector<int>* out);
 
   Coordinates scale_;
   std::vector<Point> buffer_;
-  std::vector<Tree> trees_;  // trees_[k]: empty or kBuffer * 2^k points
+  std::vector<Tree> trees_;  // non-empty, in decreasing size
 };
 
 }  // namespace nucleate::match

@@ -46,6 +46,12 @@ void CandidateIndex::Insert(int id, const Fingerprint* f, const PreparedCrystal&
   }
 }
 
+void CandidateIndex::Compact() {
+  for (auto& [key, bucket] : buckets_) {
+    if (bucket.lattice) bucket.lattice->Compact();
+  }
+}
+
 void CandidateIndex::Query(const Fingerprint& f, const PreparedCrystal& crystal,
                            std::vector<int>* out, int min_id) const {
   out->clear();

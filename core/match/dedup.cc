@@ -8,6 +8,7 @@
 #include "core/common/error.h"
 #include "core/common/parallel_for.h"
 #include "core/common/thread_count.h"
+#include "core/match/anchor_screen.h"
 #include "core/match/candidate_index.h"
 #include "core/match/fingerprint.h"
 #include "core/match/prepared_crystal.h"
@@ -57,7 +58,38 @@ struct MatchScratch {
   LatticeHits hits;
   std::vector<const CandidateBasis*> bases;
   MatcherWorkspace matcher;
+  // The anchor screen's mover side per basis of `hits` (anchor_screen.h), computed when a pair
+  // first needs it: a basis reaches many targets.
+  std::vector<AnchorMover> movers;
+  std::vector<char> mover_ready;
 };
+
+// index.Query into scratch->hits, forgetting the mover sides of the previous query's bases.
+void RunQuery(const CandidateIndex& index, const Fingerprint& fingerprint,
+              const PreparedCrystal& crystal, MatchScratch* scratch) {
+  index.Query(fingerprint, crystal, &scratch->hits);
+  scratch->movers.resize(scratch->hits.bases.size());
+  scratch->mover_ready.assign(scratch->hits.bases.size(), 0);
+}
+
+// Whether the anchor screen lets some basis of hits[first, last) (or its mirror image) through:
+// if not, MatchesUnderBases would reject the pair in its first test under every mapping.
+bool AnchorScreenPasses(const PreparedCrystal& mover, const TargetShape& target,
+                        const MatchTolerances& tolerances, std::size_t first, std::size_t last,
+                        MatchScratch* scratch) {
+  for (std::size_t h = first; h < last; ++h) {
+    const int b = scratch->hits.hits[h].second;
+    if (!scratch->mover_ready[b]) {
+      const LatticeMapping& mapping = scratch->hits.bases[b].mapping;
+      SetAnchorMover(mover, mapping.coefficients, mapping.basis, &scratch->movers[b]);
+      scratch->mover_ready[b] = 1;
+    }
+    const AnchorShifts shifts =
+        AnchorShiftsThatMayPass(scratch->movers[b], target.anchor, tolerances.site_tolerance);
+    if (shifts.plus != 0 || shifts.minus != 0) return true;
+  }
+  return false;
+}
 
 // Whether `mover` matches target j, where hits[first, last) are the query's entries for j:
 // MatchPrepared(mover, target, tolerances, true).match in both branches (with the bases the
@@ -67,6 +99,9 @@ bool Matches(const PreparedCrystal& mover, const Prepared& targets, int j,
              MatchScratch* scratch) {
   if (!scratch->hits.bases_known) {
     return MatchPrepared(mover, targets.crystals[j], tolerances, true).match;
+  }
+  if (!AnchorScreenPasses(mover, targets.shapes[j], tolerances, first, last, scratch)) {
+    return false;
   }
   scratch->bases.clear();
   for (std::size_t h = first; h < last; ++h) {
@@ -83,6 +118,26 @@ std::size_t RunEnd(const std::vector<std::pair<int, int>>& hits, std::size_t fir
   return last;
 }
 
+// Issues prefetches for `bytes` bytes from `p`: a target's data lie wherever its structure was
+// prepared, so each pair would otherwise start with several cache misses.
+void Prefetch(const void* p, std::size_t bytes) {
+  const char* c = static_cast<const char*>(p);
+  for (std::size_t offset = 0; offset < bytes; offset += 64) __builtin_prefetch(c + offset);
+  __builtin_prefetch(c + bytes - 1);
+}
+
+// Two stages, as the second needs the pointers the first brings in: a target's record (prepared
+// crystal and shape), then the sites and blocks it points to.
+void PrefetchRecord(const Prepared& targets, int id) {
+  Prefetch(&targets.crystals[id], sizeof(PreparedCrystal));
+  Prefetch(&targets.shapes[id], sizeof(TargetShape));
+}
+void PrefetchSites(const Prepared& targets, int id) {
+  const PreparedCrystal& c = targets.crystals[id];
+  Prefetch(c.frac.data(), c.frac.size() * sizeof(Eigen::Vector3d));
+  Prefetch(c.blocks.data(), c.blocks.size() * sizeof(c.blocks[0]));
+}
+
 // The lowest id in scratch->hits, from entry `from` on and below `below`, that `mover` matches
 // and `eligible(id)` allows, or -1. *next receives the entry after the matching id's (or the end).
 // Each target tried counts as one pair.
@@ -92,10 +147,22 @@ int FirstMatch(const PreparedCrystal& mover, const Prepared& targets,
                const Eligible& eligible, MatchScratch* scratch, std::int64_t* pairs,
                std::size_t* next = nullptr) {
   const auto& hits = scratch->hits.hits;
+  // Starts of the runs of entries ahead (up to two), for prefetching their targets.
   std::size_t first = from;
+  std::size_t ahead1 = first < hits.size() ? RunEnd(hits, first) : hits.size();
+  std::size_t ahead2 = ahead1 < hits.size() ? RunEnd(hits, ahead1) : hits.size();
+  if (first < hits.size()) {
+    PrefetchRecord(targets, hits[first].first);
+    PrefetchSites(targets, hits[first].first);
+  }
+  if (ahead1 < hits.size()) PrefetchRecord(targets, hits[ahead1].first);
   while (first < hits.size() && hits[first].first < below) {
     const int id = hits[first].first;
-    const std::size_t last = RunEnd(hits, first);
+    const std::size_t last = ahead1;
+    if (ahead1 < hits.size()) PrefetchSites(targets, hits[ahead1].first);
+    if (ahead2 < hits.size()) PrefetchRecord(targets, hits[ahead2].first);
+    ahead1 = ahead2;
+    ahead2 = ahead2 < hits.size() ? RunEnd(hits, ahead2) : hits.size();
     if (eligible(id)) {
       ++*pairs;
       if (Matches(mover, targets, id, tolerances, first, last, scratch)) {
@@ -135,7 +202,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
     ParallelFor(size, workers, [&](std::size_t k, int worker) {
       const int i = start + static_cast<int>(k);
       std::int64_t tried = 0;
-      representatives.Query(p.fingerprints[i], p.crystals[i], &scratch[worker].hits);
+      RunQuery(representatives, p.fingerprints[i], p.crystals[i], &scratch[worker]);
       found[k] = FirstMatch(p.crystals[i], p, tolerances, 0, no_limit, everyone,
                             &scratch[worker], &tried);
       pairs += tried;
@@ -159,11 +226,12 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
       open.Insert(i, &p.fingerprints[i], p.crystals[i]);
       open_ids.push_back(i);
     }
+    open.Compact();
     ParallelFor(open_ids.size(), workers, [&](std::size_t q, int worker) {
       const int i = open_ids[q];
       const std::size_t k = static_cast<std::size_t>(i - start);
       std::int64_t tried = 0;
-      open.Query(p.fingerprints[i], p.crystals[i], &scratch[worker].hits);
+      RunQuery(open, p.fingerprints[i], p.crystals[i], &scratch[worker]);
       found[k] = FirstMatch(p.crystals[i], p, tolerances, 0, i, everyone, &scratch[worker],
                             &tried, &first_open[k]);
       pairs += tried;
@@ -176,7 +244,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
       if (rep >= 0 && rep >= start && !is_representative(rep)) {
         // m(i) joined a group: go on. The query is run again (rarely needed, so its hits were
         // not kept); on the unchanged index it gives the same hits, so first_open[k] holds.
-        open.Query(p.fingerprints[i], p.crystals[i], &scratch[0].hits);
+        RunQuery(open, p.fingerprints[i], p.crystals[i], &scratch[0]);
         rep = FirstMatch(p.crystals[i], p, tolerances, first_open[k], i, is_representative,
                          &scratch[0], &tried);
       }
@@ -192,6 +260,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
     for (int i : open_ids) {
       if (is_representative(i)) representatives.Insert(i, &p.fingerprints[i], p.crystals[i]);
     }
+    representatives.Compact();
   }
   result.pairs_matched = pairs.load();
   return result;
@@ -207,6 +276,7 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
   for (std::size_t j = 0; j < references.size(); ++j) {
     index.Insert(static_cast<int>(j), &r.fingerprints[j], r.crystals[j]);
   }
+  index.Compact();
   NoveltyResult result;
   result.novel.assign(candidates.size(), 1);
   result.reference.assign(candidates.size(), -1);
@@ -214,7 +284,7 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
   std::vector<MatchScratch> scratch(workers);
   ParallelFor(candidates.size(), workers, [&](std::size_t i, int worker) {
     std::int64_t tried = 0;
-    index.Query(c.fingerprints[i], c.crystals[i], &scratch[worker].hits);
+    RunQuery(index, c.fingerprints[i], c.crystals[i], &scratch[worker]);
     const int j = FirstMatch(c.crystals[i], r, tolerances, 0, std::numeric_limits<int>::max(),
                              [](int) { return true; }, &scratch[worker], &tried);
     if (j >= 0) {

@@ -70,6 +70,9 @@ class LatticeIndex {
   // against concurrent queries.
   void Insert(int id, const Eigen::Matrix3d& lattice);
 
+  // BoxTree::Compact: the same results, found faster. Not thread-safe against concurrent queries.
+  void Compact() { tree_.Compact(); }
+
   // Fills *out (cleared first) with every stored id >= min_id for which FindLatticeMappings(mover,
   // target, ltol, angle_tol, 1) is not empty, each with the bases that reach it (see LatticeHits).
   // Read-only: safe from many threads while no Insert runs.

@@ -31,20 +31,6 @@ std::string Fixed2(double x) {
   return buffer;
 }
 
-// The cell whose lengths and angles are the means of the two cells': neither structure is
-// privileged, and a uniform strain splits evenly between them. `q`: the target's parameters
-// (ParametersFromMatrix), computed once per pair rather than per mapping.
-Eigen::Matrix3d AverageLattice(const Eigen::Matrix3d& x, const structure::LatticeParameters& q) {
-  const auto p = structure::ParametersFromMatrix(x);
-  structure::LatticeParameters m;
-  m.a = (p.a + q.a) / 2;
-  m.b = (p.b + q.b) / 2;
-  m.c = (p.c + q.c) / 2;
-  m.alpha = (p.alpha + q.alpha) / 2;
-  m.beta = (p.beta + q.beta) / 2;
-  m.gamma = (p.gamma + q.gamma) / 2;
-  return structure::MatrixFromParameters(m);
-}
 
 // The mover's sites in the basis of one lattice mapping, computed block by block on demand: most
 // trial origins are ruled out by the anchor's block alone, so most mappings never need the other
@@ -118,6 +104,18 @@ class MappedSites {
 
 }  // namespace
 
+Eigen::Matrix3d AverageLattice(const Eigen::Matrix3d& x, const structure::LatticeParameters& q) {
+  const auto p = structure::ParametersFromMatrix(x);
+  structure::LatticeParameters m;
+  m.a = (p.a + q.a) / 2;
+  m.b = (p.b + q.b) / 2;
+  m.c = (p.c + q.c) / 2;
+  m.alpha = (p.alpha + q.alpha) / 2;
+  m.beta = (p.beta + q.beta) / 2;
+  m.gamma = (p.gamma + q.gamma) / 2;
+  return structure::MatrixFromParameters(m);
+}
+
 MatchResult MatchStructures(const structure::Crystal& a, const structure::Crystal& b,
                             const MatchTolerances& tolerances) {
   ValidateTolerances(tolerances);  // first, so the error names the tolerance, not a crystal
@@ -145,20 +143,17 @@ struct SiteSearch {
 };
 
 // The part of matching after the lattice search, shared by MatchPrepared and MatchesUnderBases:
-// under each mapping, every trial origin, each judged by AssignSites.
-// `target_parameters`: ParametersFromMatrix(target.lattice).
+// under each mapping, every trial origin the anchor screen lets through (anchor_screen.h: it
+// rules out only origins AssignSites would reject), each judged by AssignSites.
+// `shape`: ShapeOf(target).
 SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& target,
-                       const structure::LatticeParameters& target_parameters, int index,
+                       const TargetShape& shape, int index,
                        const std::vector<LatticeMapping>& mappings, const MatchTolerances& tol,
                        bool stop_at_first_match, MatcherWorkspace* workspace) {
   SiteSearch result;
   // Trial origins: the target's first site of its least frequent element lands on each mover
   // site of that element in turn.
-  std::size_t anchor_block = 0;
-  for (std::size_t k = 1; k < target.blocks.size(); ++k) {
-    const auto size = [&](std::size_t q) { return target.blocks[q].second - target.blocks[q].first; };
-    if (size(k) < size(anchor_block)) anchor_block = k;
-  }
+  const std::size_t anchor_block = AnchorBlock(target);
   const int anchor = target.blocks[anchor_block].first;
   RejectionOrder(target.blocks, &workspace->check_order);
 
@@ -172,7 +167,16 @@ SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& targ
   Eigen::Matrix3d average;
   double unit = 0;
   std::optional<ShortImage> image;
+  const auto& target_parameters = shape.parameters;
   for (const auto& mapping : mappings) {
+    // Trial origins that may pass (anchor_screen.h); for a superlattice (index > 1) every one.
+    std::uint64_t may_pass = ~std::uint64_t{0};
+    if (index == 1) {
+      SetAnchorMover(mover, mapping.coefficients, mapping.basis, &workspace->anchor);
+      may_pass =
+          AnchorShiftsThatMayPass(workspace->anchor, shape.anchor, tol.site_tolerance).plus;
+    }
+    if (may_pass == 0) continue;
     if (!mapped.Reset(mover, mapping.coefficients, index)) continue;
     if (!previous || mapping.basis != -previous->basis) {
       average = AverageLattice(mapping.basis, target_parameters);
@@ -191,6 +195,7 @@ SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& targ
     mapped.Map(anchor_block);
     const auto [begin, end] = target.blocks[anchor_block];
     for (int s = begin; s < end; ++s) {
+      if (s - begin < 64 && !(may_pass >> (s - begin) & 1)) continue;
       const Eigen::Vector3d shift = mapped.sites()[s] - target.frac[anchor];
       if (!BlockHasPartners(mapped.sites(), target.frac, target.blocks[anchor_block], shift,
                             *image, reach * reach)) {
@@ -248,8 +253,8 @@ MatchResult MatchPrepared(const PreparedCrystal& a, const PreparedCrystal& b,
 
   MatcherWorkspace workspace;
   const SiteSearch found =
-      SearchSites(*mover, *target, structure::ParametersFromMatrix(target->lattice), index,
-                  mappings, tol, stop_at_first_match, &workspace);
+      SearchSites(*mover, *target, ShapeOf(*target, tol), index, mappings, tol,
+                  stop_at_first_match, &workspace);
   MatchResult r;
   r.match = found.matched;
   if (std::isinf(found.best_max)) {
@@ -272,7 +277,7 @@ MatchResult MatchPrepared(const PreparedCrystal& a, const PreparedCrystal& b,
 
 TargetShape ShapeOf(const PreparedCrystal& b, const MatchTolerances& tol) {
   return {MappingTest(b.lattice, tol.length_tolerance, tol.angle_tolerance),
-          structure::ParametersFromMatrix(b.lattice)};
+          structure::ParametersFromMatrix(b.lattice), AnchorTargetOf(b)};
 }
 
 bool MatchesUnderBases(const PreparedCrystal& a, const PreparedCrystal& b,
@@ -295,7 +300,7 @@ bool MatchesUnderBases(const PreparedCrystal& a, const PreparedCrystal& b,
     mappings.push_back({-v->mapping.coefficients, -v->mapping.basis});
   }
   if (mappings.empty()) return false;
-  return SearchSites(a, b, shape.parameters, 1, mappings, tol, true, workspace).matched;
+  return SearchSites(a, b, shape, 1, mappings, tol, true, workspace).matched;
 }
 
 }  // namespace nucleate::match

@@ -9,12 +9,15 @@
 // (V/N)^(1/3) of that average cell. Trial origins align one site of B's least frequent element onto
 // each site of that element in A; under each, every element's sites are paired by an exact
 // assignment and the mean displacement is removed (site_assignment.h). A and B match when some
-// candidate and origin leave every site within the site tolerance.
+// candidate and origin leave every site within the site tolerance. Most origins fail a quick test
+// before any assignment (a site without a partner nearby); a cheaper screen of that test
+// (anchor_screen.h) rules most of them out first, without changing any result.
 #pragma once
 
 #include <string>
 #include <vector>
 
+#include "core/match/anchor_screen.h"
 #include "core/match/lattice_mapping.h"
 #include "core/match/prepared_crystal.h"
 #include "core/match/site_assignment.h"
@@ -54,13 +57,21 @@ struct MatcherWorkspace {
   std::vector<char> block_mapped;               // per block: whether `mapped` holds it yet
   std::vector<std::pair<int, int>> check_order;
   SiteWorkspace sites;
+  AnchorMover anchor;  // the anchor screen's mover side for the current mapping
 };
+
+// The cell in which the matcher measures displacements: its lengths and angles are the means of
+// those of x (a mapped basis of the mover) and q (the target's ParametersFromMatrix, computed once
+// per pair rather than per mapping), so neither structure is privileged and a uniform strain
+// splits evenly between them.
+Eigen::Matrix3d AverageLattice(const Eigen::Matrix3d& x, const structure::LatticeParameters& q);
 
 // What MatchesUnderBases needs of a target beyond its prepared form: computed once per
 // structure rather than once per pair.
 struct TargetShape {
   MappingTest test;                       // MappingTest(b.lattice, ltol, angle_tol)
   structure::LatticeParameters parameters;  // ParametersFromMatrix(b.lattice)
+  AnchorTarget anchor;                      // AnchorTargetOf(b), for the anchor screen
 };
 TargetShape ShapeOf(const PreparedCrystal& b, const MatchTolerances& tolerances);
 

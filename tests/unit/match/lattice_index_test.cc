@@ -94,13 +94,14 @@ TEST(BoxTree, QueryFindsExactlyThePointsInsideTheOpenBox) {
   const BoxTree::Coordinates half = {0.1, 0.2, 0.15, 0.3, 0.1, 0.25};
   BoxTree tree(half);
   std::vector<BoxTree::Coordinates> points;
-  // 1000 points: the buffer and trees of several sizes all hold some.
+  // 1000 points: the buffer and trees of several sizes all hold some, and compacted trees.
   for (int id = 0; id < 1000; ++id) {
     BoxTree::Coordinates x;
     for (double& c : x) c = u.Next();
     points.push_back(x);
     tree.Insert(id, x);
-    if (id % 97 != 0) continue;
+    if (id % 211 == 100) tree.Compact();  // queries see the same points before and after
+    if (id % 97 != 0 && id % 211 != 100) continue;
     for (int q = 0; q < 20; ++q) {
       BoxTree::Coordinates centre;
       for (double& c : centre) c = u.Next();

@@ -9,12 +9,15 @@
 #include <limits>
 #include <vector>
 
+#include "core/match/anchor_screen.h"
 #include "core/match/lattice_index.h"
 #include "core/match/lattice_mapping.h"
 #include "core/match/lattice_points.h"
 #include "core/match/prepared_crystal.h"
 #include "core/match/short_image.h"
+#include "core/match/site_assignment.h"
 #include "core/match/structure_matcher.h"
+#include "core/structure/lattice.h"
 #include "tests/unit/match/dedup_workload.h"
 #include "tests/unit/match/match_support.h"
 
@@ -204,6 +207,93 @@ TEST(LatticeIndex, HitsHoldExactlyTheMappingsUpToSign) {
     }
   }
   EXPECT_GT(mappings, 2000);
+}
+
+// The exact tests the anchor screen stands in for, computed the matcher's way (AverageLattice,
+// ShortImage, mapped sites wrapped): under mapping m, the
+// trial origin that puts the target's anchor site on mover site `origin` passes when every block
+// has partners within reach (AssignSites' first step).
+bool ExactOriginPasses(const PreparedCrystal& mover, const PreparedCrystal& target,
+                       const LatticeMapping& m, int origin, double stol) {
+  const Eigen::Matrix3d average =
+      AverageLattice(m.basis, structure::ParametersFromMatrix(target.lattice));
+  const double unit =
+      std::cbrt(std::abs(average.determinant()) / static_cast<double>(target.size()));
+  const double reach = 2 * stol * unit;
+  const ShortImage image(average);
+  const Eigen::Matrix3d inverse_t = m.coefficients.cast<double>().inverse().transpose();
+  std::vector<Eigen::Vector3d> mapped;
+  for (const auto& f : mover.frac) mapped.push_back(structure::WrapFractional(inverse_t * f));
+  const auto anchor = target.blocks[AnchorBlock(target)];
+  const Eigen::Vector3d shift = mapped[anchor.first + origin] - target.frac[anchor.first];
+  for (const auto& block : target.blocks) {
+    if (!BlockHasPartners(mapped, target.frac, block, shift, image, reach * reach)) return false;
+  }
+  return true;
+}
+
+// The anchor screen never rules out a trial origin the exact tests accept, under a mapping and
+// under its mirror image, on lattice-compatible pairs of the dedup workload (variants of one
+// prototype pass, others not) and on random cells at site tolerances up to where the screen
+// steps aside; and it rules out most of the others.
+TEST(AnchorScreen, NeverRejectsAnOriginTheExactTestsAccept) {
+  Uniform u(17);
+  std::vector<std::pair<PreparedCrystal, PreparedCrystal>> pairs;
+  std::vector<double> tolerances;
+  const auto workload = testing::DedupWorkload(11).Make(120);
+  MatchTolerances tol;
+  for (std::size_t i = 0; i < workload.size(); ++i) {
+    for (std::size_t j = i % 2; j < workload.size(); j += 2) {
+      pairs.emplace_back(Prepare(workload[i], tol), Prepare(workload[j], tol));
+      tolerances.push_back(0.3);
+    }
+  }
+  // Random cells, each against a strained, shaken copy of itself, at larger site tolerances.
+  for (int k = 0; k < 60; ++k) {
+    const auto c = testing::RandomCrystal({8, 8, 8, 8, 8, 8, 22, 22, 22, 56, 56}, u, 12.0);
+    Eigen::Matrix3d e;
+    for (int a = 0; a < 3; ++a)
+      for (int b = 0; b < 3; ++b) e(a, b) = 0.05 * (u.Next() - 0.5);
+    auto d = testing::Strain(c, (e + e.transpose()) / 2);
+    for (auto& f : d.frac) f += 0.04 * Eigen::Vector3d(u.Next() - 0.5, u.Next() - 0.5, u.Next() - 0.5);
+    pairs.emplace_back(Prepare(d, tol), Prepare(c, tol));
+    tolerances.push_back(0.3 + 0.5 * u.Next());
+  }
+  long tried = 0, accepted = 0, screened_out = 0, stepped_aside = 0, mappings = 0;
+  for (std::size_t k = 0; k < pairs.size(); ++k) {
+    const auto& [mover, target] = pairs[k];
+    const double stol = tolerances[k];
+    const AnchorTarget record = AnchorTargetOf(target);
+    const int sites = record.sites[0];
+    ASSERT_GT(sites, 0);
+    for (const auto& m : FindLatticeMappings(mover.lattice, target.lattice, tol.length_tolerance,
+                                             tol.angle_tolerance, 1)) {
+      AnchorMover side;
+      SetAnchorMover(mover, m.coefficients, m.basis, &side);
+      const AnchorShifts shifts = AnchorShiftsThatMayPass(side, record, stol);
+      ++mappings;
+      if (shifts.plus == ~std::uint64_t{0}) ++stepped_aside;
+      // The negation of the mapping, built as MatchesUnderBases builds it.
+      const LatticeMapping mirror{-m.coefficients, -m.basis};
+      for (int o = 0; o < sites; ++o) {
+        for (const auto& [mapping, mask] : {std::make_pair(m, shifts.plus),
+                                            std::make_pair(mirror, shifts.minus)}) {
+          const bool exact = ExactOriginPasses(mover, target, mapping, o, stol);
+          const bool screen = (mask >> o) & 1;
+          ++tried;
+          accepted += exact;
+          screened_out += !screen;
+          EXPECT_TRUE(screen || !exact) << "pair " << k << " origin " << o;
+        }
+      }
+    }
+  }
+  // Origins the exact tests accept are present in bulk, the screen rules out nearly all the
+  // rest, and both of its regimes are exercised: applying, and stepping aside (large tolerances).
+  EXPECT_GT(accepted, 1000);
+  EXPECT_GT(screened_out, 0.9 * static_cast<double>(tried - accepted));
+  EXPECT_GT(stepped_aside, 10);
+  EXPECT_LT(stepped_aside, mappings / 4);
 }
 
 // MatchesUnderBases gives MatchPrepared's verdict on the pairs dedup matches (the benchmark's
