@@ -2,11 +2,14 @@
 // training step (forward, loss, backward) in cells per second, their FLOP rate, that rate as a
 // fraction of an Eigen float32 matrix product measured in the same run, graph building time, and
 // the process's peak memory. Threads: work is split into micro-batches of 8 cells, as the trainer
-// does. Prints figures; asserts nothing.
+// does. BM_ForwardScaling times one cell of 32 to 512 atoms (11 A^3 per atom) on one thread and
+// prints microseconds per atom: from 64 atoms on the graph holds cutoff neighbours only, so the
+// figure should stay about flat (cost linear in atoms; issue 10). Prints figures; asserts nothing.
 //   cmake --build build --target bench_denoiser && build/tests/bench/bench_denoiser
 #include <sys/resource.h>
 
 #include <chrono>
+#include <cmath>
 #include <random>
 #include <vector>
 
@@ -171,6 +174,41 @@ void BM_TrainingStep(benchmark::State& state) {
   Report(state, 3 * 2 * w.multiply_adds, threads);
 }
 BENCHMARK(BM_TrainingStep)->Arg(1)->Arg(2)->Unit(benchmark::kMillisecond)->UseRealTime();
+
+// One cell of n atoms at 11 A^3 per atom (a nearly cubic box, random sites).
+NoisyCell CellOfAtoms(const Architecture& a, int n) {
+  std::mt19937_64 rng(11);
+  std::uniform_real_distribution<double> u(0, 1);
+  NoisyCell cell;
+  const double side = std::cbrt(11.0 * n);
+  cell.lattice << side, 0, 0, 0.1 * u(rng), side, 0, 0.1 * u(rng), 0.1 * u(rng), side;
+  for (double& f : cell.lattice_features) f = u(rng) - 0.5;
+  for (int i = 0; i < n; ++i) {
+    cell.frac.emplace_back(u(rng), u(rng), u(rng));
+    cell.tokens.push_back(static_cast<int>(i % a.elements.size()));
+  }
+  cell.time = 0.5;
+  cell.conditions.composition.assign(a.elements.size(), 1.0 / a.elements.size());
+  cell.conditions.crystal_system = 1;
+  return cell;
+}
+
+void BM_ForwardScaling(benchmark::State& state) {
+  Work& w = Shared();
+  const int n = static_cast<int>(state.range(0));
+  const GraphBatch<float> batch = BuildGraphBatch<float>(w.architecture, {CellOfAtoms(w.architecture, n)});
+  double seconds = 0;
+  for (auto _ : state) {
+    const auto t0 = std::chrono::steady_clock::now();
+    w.net.Forward<float>(batch, w.weights.data(), &w.outputs[0], &w.caches[0]);
+    benchmark::DoNotOptimize(w.outputs[0].coordinate_score.data());
+    seconds += std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  }
+  state.counters["atoms"] = n;
+  state.counters["edges_per_atom"] = double(batch.edges()) / n;
+  state.counters["us_per_atom"] = 1e6 * seconds / double(state.iterations()) / n;
+}
+BENCHMARK(BM_ForwardScaling)->RangeMultiplier(2)->Range(32, 512)->Unit(benchmark::kMillisecond);
 
 }  // namespace
 
