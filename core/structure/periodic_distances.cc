@@ -121,6 +121,12 @@ ImageVector MinimumImage::Between(const Eigen::Vector3d& frac_i, const Eigen::Ve
   return Search(frac_j - frac_i, /*exclude_zero=*/false);
 }
 
+double MinimumImage::LowerBound(const Eigen::Vector3d& frac_i, const Eigen::Vector3d& frac_j) const {
+  const Eigen::Vector3d g = to_reduced_ * (frac_j - frac_i);
+  const Eigen::Vector3d g0 = g - g.array().round().matrix();
+  return (g0.cwiseAbs().array() / reciprocal_norms_.array()).maxCoeff() * (1 - 1e-9);
+}
+
 Eigen::MatrixXd DistanceMatrix(const Crystal& crystal, const StructureLimits& limits) {
   ValidateCrystal(crystal, limits);
   const std::size_t n = crystal.size();
@@ -152,6 +158,9 @@ ClosestPair MinimumInteratomicDistance(const Crystal& crystal, const StructureLi
   if (n <= kAllPairsSites) {
     for (std::size_t i = 0; i < n; ++i) {
       for (std::size_t j = i + 1; j < n; ++j) {
+        // A pair that cannot be shorter than the best so far cannot replace it (ties keep the
+        // earlier pair), so its search is skipped: most pairs of a cell are.
+        if (search.LowerBound(crystal.frac[i], crystal.frac[j]) >= best.distance) continue;
         const ImageVector v = search.Between(crystal.frac[i], crystal.frac[j]);
         consider(v.distance, i, j, v.image);
       }

@@ -32,6 +32,11 @@ class MinimumImage {
 
   // The shortest of all (frac_j - frac_i + n) * lattice over integer n. frac need not be wrapped.
   ImageVector Between(const Eigen::Vector3d& frac_i, const Eigen::Vector3d& frac_j) const;
+  // A lower bound on Between(frac_i, frac_j).distance, for skipping pairs that cannot beat a
+  // known distance: every image x has |x| >= |g_k| / |b_k| on each reduced axis k (see
+  // periodic_distances.cc), and |g_k| is at least the wrapped component. Widened by 1e-9 (relative)
+  // against rounding, so Between never returns less.
+  double LowerBound(const Eigen::Vector3d& frac_i, const Eigen::Vector3d& frac_j) const;
   // The shortest non-zero lattice vector: the distance from any atom to its own nearest image.
   const ImageVector& ShortestLatticeVector() const { return shortest_; }
 

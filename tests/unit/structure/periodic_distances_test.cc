@@ -48,6 +48,9 @@ TEST(MinimumImage, MatchesBruteForceOnSkewedCells) {
       const Eigen::Vector3d rebuilt = lattice.transpose() * (fj + got.image.cast<double>() - fi);
       EXPECT_LT((rebuilt - got.vector).norm(), 1e-9);
       EXPECT_NEAR(got.vector.norm(), got.distance, 1e-12);
+      // The bound that lets the closest-pair search skip pairs never exceeds the distance.
+      EXPECT_LE(search.LowerBound(fi, fj), got.distance);
+      EXPECT_LE(search.LowerBound(fi, fj), expected);
     }
   }
   RecordProperty("max_abs_difference_vs_brute_force", std::to_string(worst));
