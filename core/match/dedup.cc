@@ -1,6 +1,7 @@
 #include "core/match/dedup.h"
 
 #include <algorithm>
+#include <cstddef>
 #include <atomic>
 #include <limits>
 #include <string>
@@ -118,24 +119,18 @@ std::size_t RunEnd(const std::vector<std::pair<int, int>>& hits, std::size_t fir
   return last;
 }
 
-// Issues prefetches for `bytes` bytes from `p`: a target's data lie wherever its structure was
-// prepared, so each pair would otherwise start with several cache misses.
+// Issues prefetches for the `bytes` bytes from `p`: targets lie wherever their structures were
+// prepared, so each pair would otherwise start with a cache miss.
 void Prefetch(const void* p, std::size_t bytes) {
   const char* c = static_cast<const char*>(p);
   for (std::size_t offset = 0; offset < bytes; offset += 64) __builtin_prefetch(c + offset);
   __builtin_prefetch(c + bytes - 1);
 }
 
-// Two stages, as the second needs the pointers the first brings in: a target's record (prepared
-// crystal and shape), then the sites and blocks it points to.
-void PrefetchRecord(const Prepared& targets, int id) {
-  Prefetch(&targets.crystals[id], sizeof(PreparedCrystal));
-  Prefetch(&targets.shapes[id], sizeof(TargetShape));
-}
-void PrefetchSites(const Prepared& targets, int id) {
-  const PreparedCrystal& c = targets.crystals[id];
-  Prefetch(c.frac.data(), c.frac.size() * sizeof(Eigen::Vector3d));
-  Prefetch(c.blocks.data(), c.blocks.size() * sizeof(c.blocks[0]));
+// What the anchor screen reads of a target first: its cell, site counts and leading offsets (the
+// rest of the record, and the prepared crystal, only for the few pairs that pass).
+void PrefetchScreenRecord(const Prepared& targets, int id) {
+  Prefetch(&targets.shapes[id].anchor, offsetof(AnchorTarget, offset) + 4 * sizeof(double[3]));
 }
 
 // The lowest id in scratch->hits, from entry `from` on and below `below`, that `mover` matches
@@ -147,22 +142,17 @@ int FirstMatch(const PreparedCrystal& mover, const Prepared& targets,
                const Eligible& eligible, MatchScratch* scratch, std::int64_t* pairs,
                std::size_t* next = nullptr) {
   const auto& hits = scratch->hits.hits;
-  // Starts of the runs of entries ahead (up to two), for prefetching their targets.
+  // The start of the next run of entries, whose target is prefetched while this one is screened.
   std::size_t first = from;
-  std::size_t ahead1 = first < hits.size() ? RunEnd(hits, first) : hits.size();
-  std::size_t ahead2 = ahead1 < hits.size() ? RunEnd(hits, ahead1) : hits.size();
-  if (first < hits.size()) {
-    PrefetchRecord(targets, hits[first].first);
-    PrefetchSites(targets, hits[first].first);
-  }
-  if (ahead1 < hits.size()) PrefetchRecord(targets, hits[ahead1].first);
+  std::size_t ahead = first < hits.size() ? RunEnd(hits, first) : hits.size();
+  if (first < hits.size()) PrefetchScreenRecord(targets, hits[first].first);
   while (first < hits.size() && hits[first].first < below) {
     const int id = hits[first].first;
-    const std::size_t last = ahead1;
-    if (ahead1 < hits.size()) PrefetchSites(targets, hits[ahead1].first);
-    if (ahead2 < hits.size()) PrefetchRecord(targets, hits[ahead2].first);
-    ahead1 = ahead2;
-    ahead2 = ahead2 < hits.size() ? RunEnd(hits, ahead2) : hits.size();
+    const std::size_t last = ahead;
+    if (ahead < hits.size()) {
+      PrefetchScreenRecord(targets, hits[ahead].first);
+      ahead = RunEnd(hits, ahead);
+    }
     if (eligible(id)) {
       ++*pairs;
       if (Matches(mover, targets, id, tolerances, first, last, scratch)) {
