@@ -1,5 +1,6 @@
 // Validity checks per second on 20-atom cells: the figure that says whether checking every
-// generated candidate is free next to sampling. Prints "checks_per_second"; asserts nothing.
+// generated candidate is free next to sampling. Prints "checks_per_second" and the process's peak
+// memory ("peak_MB"); asserts nothing.
 #include <random>
 #include <vector>
 
@@ -7,6 +8,7 @@
 
 #include "core/checks/validity.h"
 #include "tests/unit/structure/crystal_builders.h"
+#include "tests/bench/peak_memory.h"
 
 namespace {
 
@@ -52,6 +54,7 @@ void BM_CheckValidityPerovskite20(benchmark::State& state) {
   for (auto _ : state) benchmark::DoNotOptimize(nucleate::checks::CheckValidity(c));
   state.counters["checks_per_second"] =
       benchmark::Counter(static_cast<double>(state.iterations()), benchmark::Counter::kIsRate);
+  state.counters["peak_MB"] = nucleate::bench::PeakMemoryMb();
 }
 BENCHMARK(BM_CheckValidityPerovskite20);
 
@@ -63,6 +66,7 @@ void BM_CheckValidityRandom20(benchmark::State& state) {
   }
   state.counters["checks_per_second"] =
       benchmark::Counter(static_cast<double>(state.iterations()), benchmark::Counter::kIsRate);
+  state.counters["peak_MB"] = nucleate::bench::PeakMemoryMb();
 }
 BENCHMARK(BM_CheckValidityRandom20);
 

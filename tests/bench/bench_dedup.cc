@@ -3,8 +3,9 @@
 // prototypes (strains of up to +-30 % and 0.4 A site moves, so lattices and sites of many pairs
 // lie just beyond the tolerances), 20 % near-duplicates of earlier entries (3 % strain, up to 0.2 A
 // site noise, rewritten: true matches) and 10 % exact duplicates (rotated, permuted, shifted).
-// Prints time, groups, pairwise matches run and the growth exponent log(t2/t1)/log(n2/n1) from
-// the previous size; sizes above max_n are skipped.
+// Prints time, structures per second, groups, pairwise matches run, the growth exponent
+// log(t2/t1)/log(n2/n1) from the previous size, and the process's peak memory so far; sizes above
+// max_n are skipped.
 // With verify_n > 0 it first checks that the screened dedup of verify_n structures gives exactly
 // the groups of the exhaustive comparison (DedupScreen::kFormulaOnly). Plain main: one timed run
 // per size is the figure.
@@ -17,6 +18,7 @@
 
 #include "core/match/dedup.h"
 #include "tests/unit/match/dedup_workload.h"
+#include "tests/bench/peak_memory.h"
 
 namespace {
 
@@ -57,10 +59,11 @@ int main(int argc, char** argv) {
     const auto t0 = std::chrono::steady_clock::now();
     const auto r = m::Deduplicate(structures, m::MatchTolerances{}, threads);
     const double t = Seconds(t0);
-    std::printf("n=%6d threads=%d time %8.2f s  groups %6zu  pairwise matches %10lld", n, threads,
-                t, r.groups.size(), static_cast<long long>(r.pairs_matched));
+    std::printf("n=%6d threads=%d time %8.2f s  %7.0f structures/s  groups %6zu  pairwise matches "
+                "%10lld",
+                n, threads, t, n / t, r.groups.size(), static_cast<long long>(r.pairs_matched));
     if (last_n) std::printf("  growth exponent %.2f", std::log(t / last_t) / std::log(double(n) / last_n));
-    std::printf("\n");
+    std::printf("  peak %.0f MB\n", nucleate::bench::PeakMemoryMb());
     std::fflush(stdout);
     last_t = t;
     last_n = n;

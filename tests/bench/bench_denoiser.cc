@@ -6,8 +6,6 @@
 // prints microseconds per atom: from 64 atoms on the graph holds cutoff neighbours only, so the
 // figure should stay about flat (cost linear in atoms; issue 10). Prints figures; asserts nothing.
 //   cmake --build build --target bench_denoiser && build/tests/bench/bench_denoiser
-#include <sys/resource.h>
-
 #include <chrono>
 #include <cmath>
 #include <random>
@@ -19,6 +17,7 @@
 #include "core/model/denoiser.h"
 #include "core/model/nn/parameters.h"
 #include "core/train/loss.h"
+#include "tests/bench/peak_memory.h"
 
 namespace {
 
@@ -95,12 +94,6 @@ double GemmFlopRate() {
   return rate;
 }
 
-double PeakMemoryMb() {
-  rusage usage{};
-  getrusage(RUSAGE_SELF, &usage);
-  return usage.ru_maxrss / 1024.0;  // Linux reports kilobytes
-}
-
 void Report(benchmark::State& state, double flops_per_batch, int threads) {
   state.counters["cells_per_s"] =
       benchmark::Counter(double(kCells), benchmark::Counter::kIsIterationInvariantRate);
@@ -108,7 +101,7 @@ void Report(benchmark::State& state, double flops_per_batch, int threads) {
                                                      benchmark::Counter::kIsIterationInvariantRate);
   state.counters["gemm_GFLOP_per_s_per_thread"] = GemmFlopRate() / 1e9;
   state.counters["threads"] = threads;
-  state.counters["peak_MB"] = PeakMemoryMb();
+  state.counters["peak_MB"] = nucleate::bench::PeakMemoryMb();
 }
 
 void BM_EigenGemmFloat32(benchmark::State& state) {

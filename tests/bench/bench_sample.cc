@@ -5,8 +5,6 @@
 // evaluation is timed around each Predict call (graph building, forward pass, output copy).
 // Prints figures; asserts nothing.
 //   cmake --build build --target bench_sample && build/tests/bench/bench_sample
-#include <sys/resource.h>
-
 #include <atomic>
 #include <chrono>
 #include <vector>
@@ -19,6 +17,7 @@
 #include "core/model/nn/parameters.h"
 #include "core/sample/network_denoiser.h"
 #include "core/sample/sampler.h"
+#include "tests/bench/peak_memory.h"
 
 namespace {
 
@@ -99,9 +98,7 @@ void BM_Sample(benchmark::State& state) {
   state.counters["steps"] = static_cast<double>(steps);
   state.counters["threads"] = threads;
   state.counters["outside_network_share"] = 1.0 - inside / (wall * threads);
-  rusage usage{};
-  getrusage(RUSAGE_SELF, &usage);
-  state.counters["peak_MB"] = usage.ru_maxrss / 1024.0;
+  state.counters["peak_MB"] = nucleate::bench::PeakMemoryMb();
   state.counters["estimate_1000_candidates_MB"] =
       sample::EstimateSamplingBytes(Bundle().architecture, 20, threads, 1000) / 1048576.0;
 }
