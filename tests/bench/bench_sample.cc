@@ -1,7 +1,8 @@
 // Sampling throughput for 20-atom cells (4 formula units of SrTiO3) with a network of the default
 // size (hidden 128, 4 layers) and random weights: candidates per second at 100 and 1000 steps on
 // 1 and 2 threads, the share of wall time spent outside network evaluation (the target:
-// under 5 %), the job's memory estimate for 1000 such candidates, and peak memory. Network
+// under 5 %), the network's FLOP rate over the whole run, the job's memory estimate for 1000 such
+// candidates, and peak memory. Network
 // evaluation is timed around each Predict call (graph building, forward pass, output copy).
 // Prints figures; asserts nothing.
 //   cmake --build build --target bench_sample && build/tests/bench/bench_sample
@@ -49,16 +50,25 @@ const model::ModelBundle& Bundle() {
   return b;
 }
 
-// The network denoiser with a stopwatch around each evaluation, per worker.
+// The network denoiser with a stopwatch around each evaluation, per worker, which also counts the
+// network's multiply-adds (one cell per evaluation; cells of this benchmark are below the
+// cutoff_from_atoms size, so every ordered pair of atoms is an edge).
 class TimedDenoiser : public sample::DenoisingFunction {
  public:
   TimedDenoiser(const sample::DenoisingFunction& inner, int workers)
-      : inner_(inner), seconds_(workers) {}
+      : inner_(inner), seconds_(workers), multiply_adds_(workers) {}
   void Predict(const sample::ChainState& s, long long t, int worker,
                sample::Prediction* out) const override {
     const auto t0 = std::chrono::steady_clock::now();
     inner_.Predict(s, t, worker, out);
     seconds_[worker] += std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    const int atoms = static_cast<int>(s.frac.size());
+    multiply_adds_[worker] += net_.ForwardMultiplyAdds(atoms, atoms * (atoms - 1), 1);
+  }
+  double multiply_adds() const {
+    double sum = 0;
+    for (double m : multiply_adds_) sum += m;
+    return sum;
   }
   int mask_token() const override { return inner_.mask_token(); }
   double total() const {
@@ -69,7 +79,9 @@ class TimedDenoiser : public sample::DenoisingFunction {
 
  private:
   const sample::DenoisingFunction& inner_;
+  const model::Denoiser net_{Bundle().architecture};
   mutable std::vector<double> seconds_;  // one slot per worker: no sharing
+  mutable std::vector<double> multiply_adds_;
 };
 
 void BM_Sample(benchmark::State& state) {
@@ -84,7 +96,7 @@ void BM_Sample(benchmark::State& state) {
   job.threads = threads;
   const model::DiffusionProcess process(Bundle().schedules, Bundle().architecture);
   const sample::NetworkDenoiser network(Bundle(), process, 1.0, threads);
-  double wall = 0, inside = 0;
+  double wall = 0, inside = 0, multiply_adds = 0;
   std::int64_t candidates = 0;
   for (auto _ : state) {
     const TimedDenoiser timed(network, threads);
@@ -92,12 +104,14 @@ void BM_Sample(benchmark::State& state) {
     const sample::SampleRun run = sample::RunSamplingWith(Bundle(), timed, job);
     wall += std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     inside += timed.total();
+    multiply_adds += timed.multiply_adds();
     candidates += static_cast<std::int64_t>(run.samples.size());
   }
   state.counters["candidates_per_s"] = candidates / wall;
   state.counters["steps"] = static_cast<double>(steps);
   state.counters["threads"] = threads;
   state.counters["outside_network_share"] = 1.0 - inside / (wall * threads);
+  state.counters["network_GFLOP_per_s"] = 2 * multiply_adds / wall / 1e9;
   state.counters["peak_MB"] = nucleate::bench::PeakMemoryMb();
   state.counters["estimate_1000_candidates_MB"] =
       sample::EstimateSamplingBytes(Bundle().architecture, 20, threads, 1000) / 1048576.0;
