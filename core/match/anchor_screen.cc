@@ -9,20 +9,6 @@ namespace {
 
 constexpr std::uint64_t kAll = ~std::uint64_t{0};
 
-// The screened blocks: the anchor and the smallest other block (the first such), which is left
-// out (-1) when there is none or it is too large.
-void ScreenedBlocks(const PreparedCrystal& c, int blocks[2]) {
-  const auto size = [&](std::size_t q) { return c.blocks[q].second - c.blocks[q].first; };
-  const std::size_t anchor = AnchorBlock(c);
-  blocks[0] = static_cast<int>(anchor);
-  blocks[1] = -1;
-  for (std::size_t k = 0; k < c.blocks.size(); ++k) {
-    if (k != anchor && (blocks[1] < 0 || size(k) < size(blocks[1]))) blocks[1] = static_cast<int>(k);
-  }
-  if (size(anchor) > kMaxAnchorSites) blocks[0] = -1;
-  if (blocks[0] < 0 || (blocks[1] >= 0 && size(blocks[1]) > kMaxAnchorSites)) blocks[1] = -1;
-}
-
 // Four sites at a time (two SSE2 registers per array), padded with NaN, which no test passes.
 using Lanes = Eigen::Array<double, 4, 1>;
 constexpr int kLaneGroups = (kMaxAnchorSites + 3) / 4;
@@ -115,6 +101,21 @@ std::size_t AnchorBlock(const PreparedCrystal& c) {
   return anchor;
 }
 
+ScreenedBlocks ScreenedBlocksOf(const PreparedCrystal& c) {
+  ScreenedBlocks screened;
+  if (c.blocks.empty()) return screened;
+  int* const blocks = screened.block;
+  const auto size = [&](std::size_t q) { return c.blocks[q].second - c.blocks[q].first; };
+  const std::size_t anchor = AnchorBlock(c);
+  blocks[0] = static_cast<int>(anchor);
+  for (std::size_t k = 0; k < c.blocks.size(); ++k) {
+    if (k != anchor && (blocks[1] < 0 || size(k) < size(blocks[1]))) blocks[1] = static_cast<int>(k);
+  }
+  if (size(anchor) > kMaxAnchorSites) blocks[0] = -1;
+  if (blocks[0] < 0 || (blocks[1] >= 0 && size(blocks[1]) > kMaxAnchorSites)) blocks[1] = -1;
+  return screened;
+}
+
 CellShape CellShapeOf(const Eigen::Matrix3d& rows) {
   CellShape s;
   for (int k = 0; k < 3; ++k) s.length[k] = rows.row(k).norm();
@@ -133,9 +134,8 @@ AnchorTarget AnchorTargetOf(const PreparedCrystal& target) {
   AnchorTarget t;
   t.cell = CellShapeOf(target.lattice);
   t.atoms = static_cast<int>(target.size());
-  if (target.blocks.empty()) return t;
-  int blocks[2];
-  ScreenedBlocks(target, blocks);
+  const ScreenedBlocks screened = ScreenedBlocksOf(target);
+  const int* const blocks = screened.block;
   if (blocks[0] < 0) return t;
   const auto [begin, end] = target.blocks[blocks[0]];
   const Eigen::Vector3d& t0 = target.frac[begin];
@@ -154,13 +154,13 @@ AnchorTarget AnchorTargetOf(const PreparedCrystal& target) {
   return t;
 }
 
-void SetAnchorMover(const PreparedCrystal& mover, const Eigen::Matrix3i& coefficients,
-                    const Eigen::Matrix3d& basis, AnchorMover* out) {
+void SetAnchorMover(const PreparedCrystal& mover, const ScreenedBlocks& screened,
+                    const Eigen::Matrix3i& coefficients, const Eigen::Matrix3d& basis,
+                    AnchorMover* out) {
   out->cell = CellShapeOf(basis);
   out->sites[0] = out->sites[1] = 0;
-  if (mover.blocks.empty()) return;
-  int blocks[2];
-  ScreenedBlocks(mover, blocks);
+  const int* const blocks = screened.block;
+  if (blocks[0] < 0) return;
   // Rows: basis = coefficients * lattice, so fractions in the new basis are coefficients^-T f.
   const Eigen::Matrix3d inverse_t = coefficients.cast<double>().inverse().transpose();
   for (int b = 0; b < 2; ++b) {

@@ -37,6 +37,14 @@ constexpr int kMaxAnchorSites = 8;
 // The block of the least frequent element (the first such in Z order): the matcher's anchor.
 std::size_t AnchorBlock(const PreparedCrystal& crystal);
 
+// The screened blocks of a crystal: the anchor's and the smallest other (the first such), -1
+// where left out (no such block, or one too large). The same for every structure of one formula
+// and site count; computed once per structure rather than once per lattice mapping.
+struct ScreenedBlocks {
+  int block[2] = {-1, -1};
+};
+ScreenedBlocks ScreenedBlocksOf(const PreparedCrystal& crystal);
+
 // A cell's lengths and the cosines and sines of alpha (rows 1, 2), beta (0, 2), gamma (0, 1).
 struct CellShape {
   double length[3];
@@ -56,14 +64,16 @@ AnchorTarget AnchorTargetOf(const PreparedCrystal& target);
 
 // The mover side under one lattice mapping (rows of `coefficients` in the mover's prepared
 // lattice give `basis`, index 1): the mapped cell and the mover's sites of the screened blocks in
-// it, per block and axis, not wrapped (only differences are used).
+// it, per block and axis, not wrapped (only differences are used). `screened` =
+// ScreenedBlocksOf(mover).
 struct AnchorMover {
   CellShape cell;
   int sites[2] = {0, 0};
   double site[2][3][kMaxAnchorSites];
 };
-void SetAnchorMover(const PreparedCrystal& mover, const Eigen::Matrix3i& coefficients,
-                    const Eigen::Matrix3d& basis, AnchorMover* out);
+void SetAnchorMover(const PreparedCrystal& mover, const ScreenedBlocks& screened,
+                    const Eigen::Matrix3i& coefficients, const Eigen::Matrix3d& basis,
+                    AnchorMover* out);
 
 // Trial origins that may pass the exact tests: bit o set for each mover anchor site o (counted
 // from the block's first) whose origin may pass under the mapping (plus) and under its negation

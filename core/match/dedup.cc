@@ -63,12 +63,14 @@ struct MatchScratch {
   // first needs it: a basis reaches many targets.
   std::vector<AnchorMover> movers;
   std::vector<char> mover_ready;
+  ScreenedBlocks screened;  // of the query structure
 };
 
 // index.Query into scratch->hits, forgetting the mover sides of the previous query's bases.
 void RunQuery(const CandidateIndex& index, const Fingerprint& fingerprint,
               const PreparedCrystal& crystal, MatchScratch* scratch) {
   index.Query(fingerprint, crystal, &scratch->hits);
+  scratch->screened = ScreenedBlocksOf(crystal);
   scratch->movers.resize(scratch->hits.bases.size());
   scratch->mover_ready.assign(scratch->hits.bases.size(), 0);
 }
@@ -82,7 +84,8 @@ bool AnchorScreenPasses(const PreparedCrystal& mover, const TargetShape& target,
     const int b = scratch->hits.hits[h].second;
     if (!scratch->mover_ready[b]) {
       const LatticeMapping& mapping = scratch->hits.bases[b].mapping;
-      SetAnchorMover(mover, mapping.coefficients, mapping.basis, &scratch->movers[b]);
+      SetAnchorMover(mover, scratch->screened, mapping.coefficients, mapping.basis,
+                     &scratch->movers[b]);
       scratch->mover_ready[b] = 1;
     }
     const AnchorShifts shifts =

@@ -145,9 +145,10 @@ struct SiteSearch {
 // The part of matching after the lattice search, shared by MatchPrepared and MatchesUnderBases:
 // under each mapping, every trial origin the anchor screen lets through (anchor_screen.h: it
 // rules out only origins AssignSites would reject), each judged by AssignSites.
-// `shape`: ShapeOf(target).
+// `target_parameters`: ParametersFromMatrix(target.lattice); `anchor`: AnchorTargetOf(target).
 SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& target,
-                       const TargetShape& shape, int index,
+                       const structure::LatticeParameters& target_parameters,
+                       const AnchorTarget& anchor_target, int index,
                        const std::vector<LatticeMapping>& mappings, const MatchTolerances& tol,
                        bool stop_at_first_match, MatcherWorkspace* workspace) {
   SiteSearch result;
@@ -167,14 +168,26 @@ SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& targ
   Eigen::Matrix3d average;
   double unit = 0;
   std::optional<ShortImage> image;
-  const auto& target_parameters = shape.parameters;
+  // The anchor screen gives the origins of a mapping and of its negation at once (the negation's
+  // mover side is the mapping's with every site negated, bit for bit, and the same cell), so a
+  // mapping that negates the last one screened takes that screen's `minus`.
+  const ScreenedBlocks screened = ScreenedBlocksOf(mover);
+  const LatticeMapping* last_screened = nullptr;
+  AnchorShifts shifts;
   for (const auto& mapping : mappings) {
     // Trial origins that may pass (anchor_screen.h); for a superlattice (index > 1) every one.
     std::uint64_t may_pass = ~std::uint64_t{0};
     if (index == 1) {
-      SetAnchorMover(mover, mapping.coefficients, mapping.basis, &workspace->anchor);
-      may_pass =
-          AnchorShiftsThatMayPass(workspace->anchor, shape.anchor, tol.site_tolerance).plus;
+      if (last_screened && mapping.coefficients == -last_screened->coefficients &&
+          mapping.basis == -last_screened->basis) {
+        may_pass = shifts.minus;
+        last_screened = nullptr;
+      } else {
+        SetAnchorMover(mover, screened, mapping.coefficients, mapping.basis, &workspace->anchor);
+        shifts = AnchorShiftsThatMayPass(workspace->anchor, anchor_target, tol.site_tolerance);
+        may_pass = shifts.plus;
+        last_screened = &mapping;
+      }
     }
     if (may_pass == 0) continue;
     if (!mapped.Reset(mover, mapping.coefficients, index)) continue;
@@ -253,8 +266,8 @@ MatchResult MatchPrepared(const PreparedCrystal& a, const PreparedCrystal& b,
 
   MatcherWorkspace workspace;
   const SiteSearch found =
-      SearchSites(*mover, *target, ShapeOf(*target, tol), index, mappings, tol,
-                  stop_at_first_match, &workspace);
+      SearchSites(*mover, *target, structure::ParametersFromMatrix(target->lattice),
+                  AnchorTargetOf(*target), index, mappings, tol, stop_at_first_match, &workspace);
   MatchResult r;
   r.match = found.matched;
   if (std::isinf(found.best_max)) {
@@ -300,7 +313,8 @@ bool MatchesUnderBases(const PreparedCrystal& a, const PreparedCrystal& b,
     mappings.push_back({-v->mapping.coefficients, -v->mapping.basis});
   }
   if (mappings.empty()) return false;
-  return SearchSites(a, b, shape, 1, mappings, tol, true, workspace).matched;
+  return SearchSites(a, b, shape.parameters, shape.anchor, 1, mappings, tol, true, workspace)
+      .matched;
 }
 
 }  // namespace nucleate::match

@@ -49,9 +49,8 @@ MinimumImage::MinimumImage(const Eigen::Matrix3d& lattice)
 
 ImageVector MinimumImage::Search(const Eigen::Vector3d& frac_delta, bool exclude_zero) const {
   if (!frac_delta.allFinite()) throw InvalidArgument("frac_coords", "is not finite");
-  const Eigen::Vector3d g = to_reduced_ * frac_delta;
-  const Eigen::Vector3d shift = -g.array().round();
-  const Eigen::Vector3d g0 = g + shift;  // each component in [-0.5, 0.5]
+  Eigen::Vector3d shift;
+  const Eigen::Vector3d g0 = WrappedReduced(frac_delta, &shift);
   double r0;
   if (exclude_zero) {
     // Some reduced cell vector is a candidate: the shortest row bounds the answer.
@@ -121,9 +120,16 @@ ImageVector MinimumImage::Between(const Eigen::Vector3d& frac_i, const Eigen::Ve
   return Search(frac_j - frac_i, /*exclude_zero=*/false);
 }
 
+Eigen::Vector3d MinimumImage::WrappedReduced(const Eigen::Vector3d& frac_delta,
+                                             Eigen::Vector3d* shift) const {
+  const Eigen::Vector3d g = to_reduced_ * frac_delta;
+  *shift = -g.array().round();
+  return g + *shift;  // each component in [-0.5, 0.5]
+}
+
 double MinimumImage::LowerBound(const Eigen::Vector3d& frac_i, const Eigen::Vector3d& frac_j) const {
-  const Eigen::Vector3d g = to_reduced_ * (frac_j - frac_i);
-  const Eigen::Vector3d g0 = g - g.array().round().matrix();
+  Eigen::Vector3d shift;
+  const Eigen::Vector3d g0 = WrappedReduced(frac_j - frac_i, &shift);
   return (g0.cwiseAbs().array() / reciprocal_norms_.array()).maxCoeff() * (1 - 1e-9);
 }
 

@@ -44,6 +44,9 @@ class MinimumImage {
 
  private:
   ImageVector Search(const Eigen::Vector3d& frac_delta, bool exclude_zero) const;
+  // frac_delta in reduced fractions, wrapped to [-1/2, 1/2] per component by adding *shift
+  // (integers): the start of Search and of LowerBound.
+  Eigen::Vector3d WrappedReduced(const Eigen::Vector3d& frac_delta, Eigen::Vector3d* shift) const;
 
   Eigen::Matrix3d lattice_;
   ReducedLattice reduced_;

@@ -269,12 +269,17 @@ TEST(AnchorScreen, NeverRejectsAnOriginTheExactTestsAccept) {
     for (const auto& m : FindLatticeMappings(mover.lattice, target.lattice, tol.length_tolerance,
                                              tol.angle_tolerance, 1)) {
       AnchorMover side;
-      SetAnchorMover(mover, m.coefficients, m.basis, &side);
+      SetAnchorMover(mover, ScreenedBlocksOf(mover), m.coefficients, m.basis, &side);
       const AnchorShifts shifts = AnchorShiftsThatMayPass(side, record, stol);
       ++mappings;
       if (shifts.plus == ~std::uint64_t{0}) ++stepped_aside;
-      // The negation of the mapping, built as MatchesUnderBases builds it.
+      // The negation of the mapping, built as MatchesUnderBases builds it. SearchSites takes its
+      // origins from the mapping's `minus` rather than screening it again: the two must agree.
       const LatticeMapping mirror{-m.coefficients, -m.basis};
+      AnchorMover mirror_side;
+      SetAnchorMover(mover, ScreenedBlocksOf(mover), mirror.coefficients, mirror.basis,
+                     &mirror_side);
+      ASSERT_EQ(AnchorShiftsThatMayPass(mirror_side, record, stol).plus, shifts.minus);
       for (int o = 0; o < sites; ++o) {
         for (const auto& [mapping, mask] : {std::make_pair(m, shifts.plus),
                                             std::make_pair(mirror, shifts.minus)}) {
