@@ -64,6 +64,7 @@ struct MatchScratch {
   std::vector<AnchorMover> movers;
   std::vector<char> mover_ready;
   ScreenedBlocks screened;  // of the query structure
+  std::int64_t past_screens = 0;  // pairs that went on to the site search (cost measure)
 };
 
 // index.Query into scratch->hits, forgetting the mover sides of the previous query's bases.
@@ -102,11 +103,13 @@ bool Matches(const PreparedCrystal& mover, const Prepared& targets, int j,
              const MatchTolerances& tolerances, std::size_t first, std::size_t last,
              MatchScratch* scratch) {
   if (!scratch->hits.bases_known) {
+    ++scratch->past_screens;
     return MatchPrepared(mover, targets.crystals[j], tolerances, true).match;
   }
   if (!AnchorScreenPasses(mover, targets.shapes[j], tolerances, first, last, scratch)) {
     return false;
   }
+  ++scratch->past_screens;
   scratch->bases.clear();
   for (std::size_t h = first; h < last; ++h) {
     scratch->bases.push_back(&scratch->hits.bases[scratch->hits.hits[h].second]);
@@ -256,6 +259,7 @@ DedupResult Deduplicate(const std::vector<structure::Crystal>& structures,
     representatives.Compact();
   }
   result.pairs_matched = pairs.load();
+  for (const MatchScratch& s : scratch) result.pairs_past_screens += s.past_screens;
   return result;
 }
 
@@ -287,6 +291,7 @@ NoveltyResult Novelty(const std::vector<structure::Crystal>& candidates,
     pairs += tried;
   });
   result.pairs_matched = pairs.load();
+  for (const MatchScratch& s : scratch) result.pairs_past_screens += s.past_screens;
   return result;
 }
 

@@ -109,6 +109,23 @@ TEST(Deduplicate, ScreenGivesTheExhaustiveGroupsOnTheBenchmarkWorkload) {
   EXPECT_LT(screened.pairs_matched * 10, exhaustive.pairs_matched);
 }
 
+// The same over many structure types at tolerances narrower than the defaults (each of them feeds
+// the lattice screen's box widths and the anchor screen's reach).
+TEST(Deduplicate, ScreenGivesTheExhaustiveGroupsAtNarrowTolerances) {
+  const auto structures = testing::DedupWorkload(5, testing::Variety::Many()).Make(1500);
+  MatchTolerances narrow;
+  narrow.length_tolerance = 0.05;
+  narrow.site_tolerance = 0.15;
+  narrow.angle_tolerance = 2;
+  const DedupResult screened = Deduplicate(structures, narrow, 2);
+  const DedupResult exhaustive = Deduplicate(structures, narrow, 2, DedupScreen::kFormulaOnly);
+  EXPECT_EQ(screened.groups, exhaustive.groups);
+  int shared = 0;
+  for (const auto& g : exhaustive.groups) shared += g.size() > 1;
+  EXPECT_GT(shared, 100);
+  EXPECT_LT(screened.pairs_matched * 100, exhaustive.pairs_matched);
+}
+
 TEST(Deduplicate, ResultDoesNotDependOnThreadCount) {
   // More structures than one chunk (512) so the chunked parallel path is exercised.
   std::vector<Crystal> parents;
@@ -118,6 +135,11 @@ TEST(Deduplicate, ResultDoesNotDependOnThreadCount) {
   EXPECT_EQ(one.groups, four.groups);
   EXPECT_EQ(one.group_of, four.group_of);
   EXPECT_EQ(one.pairs_matched, four.pairs_matched);
+  EXPECT_EQ(one.pairs_past_screens, four.pairs_past_screens);
+  // Every structure that joined a group got there through one pair that passed the screens.
+  EXPECT_GE(one.pairs_past_screens,
+            static_cast<std::int64_t>(structures.size() - one.groups.size()));
+  EXPECT_LE(one.pairs_past_screens, one.pairs_matched);
   EXPECT_GT(one.groups.size(), 40u);  // the strongly perturbed half founds groups of its own
   EXPECT_LT(one.groups.size(), 700u);
 

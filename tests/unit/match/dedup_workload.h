@@ -9,6 +9,10 @@
 //    site moved by up to 0.2 A, then rotated, permuted and origin-shifted (true matches that are
 //    not exact copies);
 //  * exact duplicates (10 %): an earlier entry rotated, permuted and origin-shifted.
+// That is the crowded set (Variety{}, the default). Variety::Many() is the same recipe spread over
+// many structure types: 1,000 prototypes with axis ratios up to 3 and angles from 70 to 110
+// degrees, each variant strained by up to +-0.05 (a generator proposing many distinct
+// arrangements, each sampled a few times with small distortions).
 #pragma once
 
 #include <algorithm>
@@ -24,10 +28,21 @@
 
 namespace nucleate::match::testing {
 
+// How varied the distinct structures are.
+struct Variety {
+  int prototypes = 5;
+  double strain = 0.3;                     // largest strain component of a distinct variant
+  double axis_ratio = 2;                   // prototype axes from 1 to this, before scaling
+  double angle_lo = 80, angle_hi = 100;    // prototype angles, degrees
+
+  static Variety Many() { return {1000, 0.05, 3, 70, 110}; }
+};
+
 class DedupWorkload {
  public:
-  explicit DedupWorkload(std::uint64_t seed) : rng_(seed) {
-    for (int k = 0; k < 5; ++k) prototypes_.push_back(Prototype());
+  explicit DedupWorkload(std::uint64_t seed, const Variety& variety = {})
+      : rng_(seed), variety_(variety) {
+    for (int k = 0; k < variety.prototypes; ++k) prototypes_.push_back(Prototype());
   }
 
   // `family` (optional) receives each structure's prototype index.
@@ -39,7 +54,7 @@ class DedupWorkload {
       const unsigned kind = i == 0 ? 0 : static_cast<unsigned>(rng_() % 10);
       if (kind < 7) {
         const int p = static_cast<int>(rng_() % prototypes_.size());
-        out.push_back(Distort(prototypes_[p], 0.3, 0.4, false));
+        out.push_back(Distort(prototypes_[p], variety_.strain, 0.4, false));
         from.push_back(p);
       } else {
         const std::size_t earlier = rng_() % out.size();
@@ -56,8 +71,11 @@ class DedupWorkload {
   double Uniform(double lo, double hi) { return std::uniform_real_distribution<double>(lo, hi)(rng_); }
 
   structure::Crystal Prototype() {
-    structure::LatticeParameters p{1 + Uniform(0, 1), 1 + Uniform(0, 1), 1 + Uniform(0, 1),
-                                   80 + Uniform(0, 20), 80 + Uniform(0, 20), 80 + Uniform(0, 20)};
+    const double r = variety_.axis_ratio - 1, lo = variety_.angle_lo,
+                 span = variety_.angle_hi - variety_.angle_lo;
+    structure::LatticeParameters p{1 + Uniform(0, r), 1 + Uniform(0, r), 1 + Uniform(0, r),
+                                   lo + Uniform(0, span), lo + Uniform(0, span),
+                                   lo + Uniform(0, span)};
     structure::Crystal c;
     c.lattice = structure::MatrixFromParameters(p);
     c.lattice *= std::cbrt(20 * 11.0 / std::abs(c.lattice.determinant()));
@@ -111,6 +129,7 @@ class DedupWorkload {
   }
 
   std::mt19937_64 rng_;
+  Variety variety_;
   std::vector<structure::Crystal> prototypes_;
 };
 
