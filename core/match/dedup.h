@@ -32,7 +32,8 @@ struct DedupResult {
   // Deduplicate), so it can exceed the count of the plain sequential rule by a little.
   std::int64_t pairs_matched = 0;
   // Of those, the pairs the anchor screen let through to the full site search: pairs whose
-  // lattices and anchor sites agree within the tolerances (the same for any thread count).
+  // lattices and anchor sites agree within the tolerances (every pair of a query whose lattice
+  // enumeration was refused). The same for any thread count.
   std::int64_t pairs_past_screens = 0;
 };
 

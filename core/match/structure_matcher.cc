@@ -145,7 +145,8 @@ struct SiteSearch {
 // The part of matching after the lattice search, shared by MatchPrepared and MatchesUnderBases:
 // under each mapping, every trial origin the anchor screen lets through (anchor_screen.h: it
 // rules out only origins AssignSites would reject), each judged by AssignSites.
-// `target_parameters`: ParametersFromMatrix(target.lattice); `anchor`: AnchorTargetOf(target).
+// `target_parameters`: ParametersFromMatrix(target.lattice); `anchor_target`:
+// AnchorTargetOf(target).
 SiteSearch SearchSites(const PreparedCrystal& mover, const PreparedCrystal& target,
                        const structure::LatticeParameters& target_parameters,
                        const AnchorTarget& anchor_target, int index,
