@@ -6,7 +6,7 @@
 #include <cstdlib>
 #include <limits>
 #include <map>
-#include <memory>
+#include <optional>
 #include <string>
 #include <utility>
 
@@ -161,7 +161,7 @@ Reachable ReachableSums(int count, std::vector<int> allowed) {
         ++next.counts[j * k + a];
       }
     }
-    std::swap(r.lo, next.lo);
+    r.lo = next.lo;
     r.reached.swap(next.reached);
     r.counts.swap(next.counts);
   }
@@ -211,7 +211,7 @@ bool MixedValencePass(const std::vector<Species>& species, const std::vector<int
   ordered.insert(ordered.end(), wrong_order.begin(), wrong_order.end());
 
   // Per species and sign (index 0: cations, 1: anions), the sums its atoms can reach.
-  std::vector<std::array<std::unique_ptr<Reachable>, 2>> cache(species.size());
+  std::vector<std::array<std::optional<Reachable>, 2>> cache(species.size());
   // Totals reachable by the first s + 1 species, on a dense range from lo[s]; for each, the sum of
   // species s on the first way found to reach it (totals and species sums in ascending order),
   // from which the way back from a total of zero is read.
@@ -224,15 +224,15 @@ bool MixedValencePass(const std::vector<Species>& species, const std::vector<int
     std::vector<char> start{1};
     const std::vector<char>* previous = &start;
     for (std::size_t s = 0; s < species.size(); ++s) {
-      std::unique_ptr<Reachable>& entry = cache[s][signs[s] > 0 ? 0 : 1];
+      std::optional<Reachable>& entry = cache[s][signs[s] > 0 ? 0 : 1];
       if (!entry) {
         std::vector<int> allowed;
         for (int state : species[s].element->common_oxidation_states) {
           if (state * signs[s] > 0) allowed.push_back(state);
         }
-        entry = std::make_unique<Reachable>(ReachableSums(species[s].count, std::move(allowed)));
+        entry = ReachableSums(species[s].count, std::move(allowed));
       }
-      per[s] = entry.get();
+      per[s] = &*entry;
       const Reachable& r = *per[s];
       lo[s] = previous_lo + r.lo;
       reached[s].assign(previous->size() + r.reached.size() - 1, 0);
